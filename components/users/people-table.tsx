@@ -1,0 +1,190 @@
+"use client";
+
+import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
+import type { ColumnDef, SortingState } from "@tanstack/react-table";
+import { useMemo, useState } from "react";
+import { toast } from "sonner";
+import { Badge, type BadgeTone } from "@/components/ui/badge";
+import { Button } from "@/components/ui/button";
+import { DataTable } from "@/components/ui/data-table";
+import { Input, Select } from "@/components/ui/input";
+import { fetchJson, toQueryString } from "@/lib/fetch-json";
+import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
+import { formatDateTime } from "@/lib/format";
+import { resendInvitationAction, setUserStatusAction } from "@/lib/users/actions";
+import type { UserListRow } from "@/lib/users/service";
+
+const STATUS: Record<UserListRow["status"], { label: string; tone: BadgeTone }> = {
+  active: { label: "Active", tone: "ok" },
+  invited: { label: "Invited", tone: "info" },
+  disabled: { label: "Switched off", tone: "neutral" },
+};
+
+const PAGE_SIZE = 20;
+
+/** People in the caller's scope, paged and sorted on the server, with their account actions. */
+export function PeopleTable({
+  roles,
+  showOrganisation,
+  currentUserId,
+}: {
+  roles: readonly Role[];
+  showOrganisation: boolean;
+  currentUserId: number;
+}) {
+  const queryClient = useQueryClient();
+  const [page, setPage] = useState(1);
+  const [sorting, setSorting] = useState<SortingState>([{ id: "name", desc: false }]);
+  const [q, setQ] = useState("");
+  const [role, setRole] = useState("");
+  const [status, setStatus] = useState("");
+
+  const params = {
+    page,
+    pageSize: PAGE_SIZE,
+    sort: sorting[0]?.id ?? "name",
+    dir: sorting[0]?.desc ? "desc" : "asc",
+    q: q.trim(),
+    role,
+    status,
+  };
+  const { data, isFetching, error } = useQuery({
+    queryKey: ["users", params],
+    queryFn: () => fetchJson<{ rows: UserListRow[]; total: number }>(`/api/users${toQueryString(params)}`),
+    placeholderData: keepPreviousData,
+    refetchInterval: 30_000,
+  });
+
+  const columns = useMemo<ColumnDef<UserListRow, unknown>[]>(() => {
+    const run = async (label: string, action: () => Promise<{ ok: boolean; error?: { message: string } }>) => {
+      const result = await action();
+      if (result.ok) toast.success(label);
+      else toast.error(result.error?.message ?? "That did not work.");
+      await queryClient.invalidateQueries({ queryKey: ["users"] });
+    };
+    const cols: ColumnDef<UserListRow, unknown>[] = [
+      {
+        id: "name",
+        header: "Name",
+        accessorKey: "name",
+        cell: ({ row }) => (
+          <div>
+            <p className="font-medium text-ink">{row.original.name}</p>
+            <p className="text-muted">{row.original.email}</p>
+          </div>
+        ),
+      },
+      {
+        id: "role",
+        header: "Role",
+        accessorKey: "role",
+        cell: ({ row }) => (
+          <div>
+            <p>{ROLE_LABELS[row.original.role]}</p>
+            {row.original.siteName && <p className="text-muted">{row.original.siteName}</p>}
+          </div>
+        ),
+      },
+    ];
+    if (showOrganisation) {
+      cols.push({ id: "organisation", header: "Organisation", accessorKey: "organisationName" });
+    }
+    cols.push(
+      {
+        id: "status",
+        header: "Status",
+        accessorKey: "status",
+        cell: ({ row }) => <Badge tone={STATUS[row.original.status].tone}>{STATUS[row.original.status].label}</Badge>,
+      },
+      {
+        id: "last_sign_in_at",
+        header: "Last signed in",
+        accessorKey: "lastSignInAt",
+        cell: ({ row }) => <span className="tabular-nums">{formatDateTime(row.original.lastSignInAt)}</span>,
+      },
+      {
+        id: "actions",
+        header: () => <span className="sr-only">Actions</span>,
+        enableSorting: false,
+        cell: ({ row }) => {
+          const u = row.original;
+          if (u.id === currentUserId) return <span className="text-xs text-muted">You</span>;
+          if (u.status === "invited") {
+            return (
+              <Button variant="secondary" size="sm" onClick={() => run(`New link sent to ${u.email}`, () => resendInvitationAction({ userId: u.id }))}>
+                Resend link
+              </Button>
+            );
+          }
+          const next = u.status === "active" ? "disabled" : "active";
+          return (
+            <Button
+              variant={next === "disabled" ? "ghost" : "secondary"}
+              size="sm"
+              onClick={() =>
+                run(next === "disabled" ? `${u.name} can no longer sign in` : `${u.name} can sign in again`, () =>
+                  setUserStatusAction({ userId: u.id, status: next }),
+                )
+              }
+            >
+              {next === "disabled" ? "Switch off" : "Switch on"}
+            </Button>
+          );
+        },
+      },
+    );
+    return cols;
+  }, [showOrganisation, currentUserId, queryClient]);
+
+  return (
+    <div className="space-y-4">
+      <div className="grid gap-3 sm:grid-cols-[1fr_12rem_12rem]">
+        <Input
+          type="search"
+          placeholder="Search by name or e-mail"
+          aria-label="Search by name or e-mail"
+          value={q}
+          onChange={(e) => {
+            setQ(e.target.value);
+            setPage(1);
+          }}
+        />
+        <Select aria-label="Role" value={role} onChange={(e) => { setRole(e.target.value); setPage(1); }}>
+          <option value="">Every role</option>
+          {roles.map((r) => (
+            <option key={r} value={r}>
+              {ROLE_LABELS[r]}
+            </option>
+          ))}
+        </Select>
+        <Select aria-label="Status" value={status} onChange={(e) => { setStatus(e.target.value); setPage(1); }}>
+          <option value="">Any status</option>
+          <option value="active">Active</option>
+          <option value="invited">Invited</option>
+          <option value="disabled">Switched off</option>
+        </Select>
+      </div>
+      {error && (
+        <p role="alert" className="text-sm text-danger-700">
+          {error.message}
+        </p>
+      )}
+      <DataTable
+        caption="People"
+        columns={columns}
+        rows={data?.rows ?? []}
+        total={data?.total ?? 0}
+        page={page}
+        pageSize={PAGE_SIZE}
+        sorting={sorting}
+        onSortingChange={(s) => {
+          setSorting(s);
+          setPage(1);
+        }}
+        onPageChange={setPage}
+        loading={isFetching}
+        getRowId={(row) => String(row.id)}
+      />
+    </div>
+  );
+}

@@ -1,0 +1,82 @@
+import type { Kysely } from "kysely";
+import type { Database } from "@/db/schema";
+import { hashPassword } from "@/lib/auth/password";
+import { DEMO_ORGANISATIONS } from "./organisations";
+import { DEMO_PASSWORD, DEMO_PEOPLE } from "./people";
+
+// Writes the demo scenario into an empty, migrated database, in one transaction.
+
+export interface SeedResult {
+  organisations: Record<string, number>;
+  sites: Record<string, number>;
+  users: Record<string, number>;
+}
+
+export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<SeedResult> {
+  const existing = await db.selectFrom("organisations").select("id").limit(1).executeTakeFirst();
+  if (existing) {
+    throw new Error("The database already holds data. Seed a fresh database (npm run demo starts from a fresh one).");
+  }
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const iso = now.toISOString();
+  return db.transaction().execute(async (trx) => {
+    const result: SeedResult = { organisations: {}, sites: {}, users: {} };
+    for (const org of DEMO_ORGANISATIONS) {
+      const { id } = await trx
+        .insertInto("organisations")
+        .values({
+          kind: org.kind,
+          name: org.name,
+          short_code: org.shortCode,
+          billing_email: org.billingEmail ?? null,
+          created_at: iso,
+          updated_at: iso,
+        })
+        .returning("id")
+        .executeTakeFirstOrThrow();
+      result.organisations[org.shortCode] = id;
+      for (const site of org.sites) {
+        const row = await trx
+          .insertInto("sites")
+          .values({
+            organisation_id: id,
+            name: site.name,
+            address_line1: site.addressLine1,
+            town: site.town,
+            postcode: site.postcode,
+            latitude: site.latitude,
+            longitude: site.longitude,
+            opening_hours: JSON.stringify(site.openingHours),
+            delivery_notes: site.deliveryNotes ?? null,
+            contact_name: site.contactName ?? null,
+            contact_phone: site.contactPhone ?? null,
+            is_depot: site.isDepot ? 1 : 0,
+            created_at: iso,
+            updated_at: iso,
+          })
+          .returning("id")
+          .executeTakeFirstOrThrow();
+        result.sites[site.name] = row.id;
+      }
+    }
+    for (const person of DEMO_PEOPLE) {
+      const { id } = await trx
+        .insertInto("users")
+        .values({
+          organisation_id: result.organisations[person.organisation]!,
+          site_id: person.site ? result.sites[person.site]! : null,
+          email: person.email,
+          name: person.name,
+          role: person.role,
+          password_hash: passwordHash,
+          status: "active",
+          created_at: iso,
+          updated_at: iso,
+        })
+        .returning("id")
+        .executeTakeFirstOrThrow();
+      result.users[person.email] = id;
+    }
+    return result;
+  });
+}

@@ -1,0 +1,56 @@
+import path from "node:path";
+import { z } from "zod";
+
+// Server-side configuration, parsed once from the environment. Client code never imports this.
+const serverEnvSchema = z.object({
+  NODE_ENV: z.enum(["development", "test", "production"]).default("development"),
+  /** Folder for the SQLite file and uploads; git-ignored. */
+  STEAMLANE_DATA_DIR: z.string().min(1).default("data"),
+  DATABASE_PATH: z.string().min(1).optional(),
+  UPLOADS_DIR: z.string().min(1).optional(),
+  /** Public address of the app, used in e-mailed links. */
+  APP_URL: z.string().url().default("http://localhost:3000"),
+  NEXTAUTH_SECRET: z.string().min(16).optional(),
+  SMTP_HOST: z.string().min(1).default("127.0.0.1"),
+  SMTP_PORT: z.coerce.number().int().positive().default(1025),
+  SMTP_SECURE: z
+    .enum(["true", "false"])
+    .default("false")
+    .transform((v) => v === "true"),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().min(3).default("Steamlane <no-reply@larkmoor.example>"),
+  /** "off" stops the in-process outbox worker (tests drive the outbox themselves). */
+  MAIL_WORKER: z.enum(["on", "off"]).default("on"),
+  /** The unit's own time zone: service calendars, dates on labels and invoices. */
+  UNIT_TIME_ZONE: z.string().min(1).default("Europe/London"),
+});
+
+export type ServerEnv = z.infer<typeof serverEnvSchema> & {
+  databasePath: string;
+  uploadsDir: string;
+};
+
+let cached: ServerEnv | undefined;
+
+/** The parsed environment; throws with the list of bad variables when one is wrong. */
+export function serverEnv(): ServerEnv {
+  if (cached) return cached;
+  const parsed = serverEnvSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
+    throw new Error(`Bad environment configuration: ${problems}`);
+  }
+  const env = parsed.data;
+  cached = {
+    ...env,
+    databasePath: env.DATABASE_PATH ?? path.join(env.STEAMLANE_DATA_DIR, "steamlane.db"),
+    uploadsDir: env.UPLOADS_DIR ?? path.join(env.STEAMLANE_DATA_DIR, "uploads"),
+  };
+  return cached;
+}
+
+/** Forget the parsed environment (tests change variables between files). */
+export function resetServerEnvCache(): void {
+  cached = undefined;
+}

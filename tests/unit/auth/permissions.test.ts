@@ -1,0 +1,56 @@
+import { describe, expect, it } from "vitest";
+import { ACTIONS, assertCan, can, PERMISSIONS } from "@/lib/auth/permissions";
+import { audienceOf, CUSTOMER_ROLES, homePathFor, ROLES, UNIT_ROLES } from "@/lib/auth/roles";
+import { AppError } from "@/lib/errors";
+
+describe("the permission table", () => {
+  it("has an entry for each of the eight roles, naming only known actions", () => {
+    expect(Object.keys(PERMISSIONS).sort()).toEqual([...ROLES].sort());
+    expect(ROLES).toHaveLength(8);
+    for (const role of ROLES) {
+      for (const action of PERMISSIONS[role]) expect(ACTIONS).toContain(action);
+      expect(new Set(PERMISSIONS[role]).size).toBe(PERMISSIONS[role].length);
+    }
+  });
+
+  it("lets every role see its home", () => {
+    for (const role of ROLES) expect(can(role, "home.view")).toBe(true);
+  });
+
+  it("gives user management to administrators and clinic managers only", () => {
+    const managers = ROLES.filter((r) => can(r, "users.invite"));
+    expect(managers.sort()).toEqual(["admin", "clinic_manager"]);
+    expect(can("clinic_staff", "users.view")).toBe(false);
+    expect(can("driver", "users.manage")).toBe(false);
+  });
+
+  it("keeps organisation and site administration with the administrator", () => {
+    for (const role of ROLES) {
+      expect(can(role, "organisations.manage")).toBe(role === "admin");
+      expect(can(role, "sites.manage")).toBe(role === "admin");
+    }
+  });
+
+  it("never lets a customer role list the unit's organisations", () => {
+    for (const role of CUSTOMER_ROLES) expect(can(role, "organisations.view")).toBe(false);
+  });
+
+  it("assertCan throws a 403 application error", () => {
+    expect(() => assertCan({ role: "clinic_staff" }, "users.invite")).toThrowError(AppError);
+    try {
+      assertCan({ role: "driver" }, "users.view");
+    } catch (error) {
+      expect((error as AppError).status).toBe(403);
+    }
+    expect(() => assertCan({ role: "admin" }, "users.invite")).not.toThrow();
+  });
+});
+
+describe("homes by role", () => {
+  it("sends customers to the clinic views, drivers to theirs, and the unit's staff to the unit's", () => {
+    for (const role of CUSTOMER_ROLES) expect(homePathFor(role)).toBe("/clinic");
+    for (const role of UNIT_ROLES) expect(audienceOf(role)).toBe(role === "driver" ? "driver" : "unit");
+    expect(homePathFor("driver")).toBe("/driver");
+    expect(homePathFor("quality_lead")).toBe("/unit");
+  });
+});
