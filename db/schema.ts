@@ -104,6 +104,101 @@ export interface OutboxTable {
   sent_at: string | null;
 }
 
+export interface FilesTable {
+  id: Generated<number>;
+  organisation_id: number | null;
+  purpose: string;
+  original_name: string;
+  content_type: string;
+  size_bytes: number;
+  sha256: string;
+  storage_key: string;
+  uploaded_by: number | null;
+  created_at: string;
+}
+
+export type Packaging = "wrap" | "rigid_container" | "single_pouch" | "double_pouch";
+export type SterilisationMethod = "steam_134" | "steam_121" | "low_temperature";
+
+export interface SetTypesTable {
+  id: Generated<number>;
+  organisation_id: number;
+  code: string;
+  name: string;
+  set_class: string;
+  packaging: Packaging;
+  sterilisation_method: SterilisationMethod;
+  processing_flags: Generated<string>;
+  processing_notes: string | null;
+  weight_g: number;
+  size_stu: number;
+  ifu_file_id: number | null;
+  active: Generated<number>;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface SetTypeItemsTable {
+  id: Generated<number>;
+  set_type_id: number;
+  position: number;
+  name: string;
+  quantity: number;
+}
+
+export interface SetsTable {
+  id: Generated<number>;
+  organisation_id: number;
+  set_type_id: number;
+  home_site_id: number;
+  serial: string;
+  giai: string;
+  status: "in_service" | "retired";
+  notes: string | null;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface ContractsTable {
+  id: Generated<number>;
+  organisation_id: number;
+  reference: string;
+  valid_from: string;
+  valid_until: string | null;
+  currency: string;
+  vat_category: Generated<string>;
+  vat_rate_bp: number;
+  payment_terms_days: number;
+  turnaround_standard_hours: number;
+  turnaround_express_hours: number;
+  clock_stops_at: "released" | "delivered";
+  service_calendar: string;
+  minimum_monthly_fee_minor: number;
+  sla_credit_bp: number;
+  notes: string | null;
+  created_by: number | null;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface ContractRatesTable {
+  id: Generated<number>;
+  contract_id: number;
+  set_class: string;
+  band_index: number;
+  up_to_quantity: number | null;
+  unit_price_minor: number;
+}
+
+export interface ContractSurchargesTable {
+  id: Generated<number>;
+  contract_id: number;
+  kind: string;
+  basis: "per_set" | "percent_of_fee";
+  amount_minor: number | null;
+  basis_points: number | null;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   sites: SitesTable;
@@ -112,6 +207,13 @@ export interface Database {
   sign_in_failures: SignInFailuresTable;
   audit_log: AuditLogTable;
   outbox: OutboxTable;
+  files: FilesTable;
+  set_types: SetTypesTable;
+  set_type_items: SetTypeItemsTable;
+  sets: SetsTable;
+  contracts: ContractsTable;
+  contract_rates: ContractRatesTable;
+  contract_surcharges: ContractSurchargesTable;
 }
 
 export type Organisation = Selectable<OrganisationsTable>;
@@ -121,3 +223,7 @@ export type User = Selectable<UsersTable>;
 export type NewUser = Insertable<UsersTable>;
 export type UserUpdate = Updateable<UsersTable>;
 export type OutboxRow = Selectable<OutboxTable>;
+export type FileRow = Selectable<FilesTable>;
+export type SetType = Selectable<SetTypesTable>;
+export type SetRow = Selectable<SetsTable>;
+export type Contract = Selectable<ContractsTable>;

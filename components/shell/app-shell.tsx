@@ -1,7 +1,7 @@
 "use client";
 
 import * as DialogPrimitive from "@radix-ui/react-dialog";
-import { Home, LogOut, MapPin, Menu, Truck, Users, X } from "lucide-react";
+import { Barcode, BookOpen, Building2, FileText, Home, LogOut, MapPin, Menu, Truck, Users, X } from "lucide-react";
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { signOut } from "next-auth/react";
@@ -10,7 +10,16 @@ import { cn } from "@/lib/cn";
 import { Wordmark } from "./logo";
 import type { NavIcon, NavItem } from "./navigation";
 
-const ICONS: Record<NavIcon, typeof Home> = { home: Home, users: Users, "map-pin": MapPin, truck: Truck };
+const ICONS: Record<NavIcon, typeof Home> = {
+  home: Home,
+  users: Users,
+  "map-pin": MapPin,
+  truck: Truck,
+  building: Building2,
+  book: BookOpen,
+  barcode: Barcode,
+  "file-text": FileText,
+};
 
 export interface ShellUser {
   name: string;

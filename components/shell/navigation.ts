@@ -3,7 +3,7 @@ import type { Audience } from "@/lib/auth/roles";
 
 // The navigation of each audience. An entry shows only when the role may do its action.
 
-export type NavIcon = "home" | "users" | "map-pin" | "truck";
+export type NavIcon = "home" | "users" | "map-pin" | "truck" | "building" | "book" | "barcode" | "file-text";
 
 export interface NavItem {
   href: string;
@@ -16,11 +16,17 @@ export const NAVIGATION: Record<Audience, NavItem[]> = {
   clinic: [
     { href: "/clinic", label: "Overview", icon: "home", action: "home.view" },
     { href: "/clinic/sites", label: "Our sites", icon: "map-pin", action: "sites.view" },
+    { href: "/clinic/catalogue", label: "Set catalogue", icon: "book", action: "catalogue.view" },
+    { href: "/clinic/contract", label: "Contract", icon: "file-text", action: "contracts.view" },
     { href: "/clinic/team", label: "Team", icon: "users", action: "users.view" },
   ],
   unit: [
     { href: "/unit", label: "Overview", icon: "home", action: "home.view" },
-    { href: "/unit/sites", label: "Customer sites", icon: "map-pin", action: "sites.view" },
+    { href: "/unit/customers", label: "Customers", icon: "building", action: "organisations.view" },
+    { href: "/unit/sites", label: "Sites", icon: "map-pin", action: "sites.view" },
+    { href: "/unit/catalogue", label: "Set catalogue", icon: "book", action: "catalogue.view" },
+    { href: "/unit/sets", label: "Sets", icon: "barcode", action: "sets.view" },
+    { href: "/unit/contracts", label: "Contracts", icon: "file-text", action: "contracts.view" },
     { href: "/unit/users", label: "People", icon: "users", action: "users.view" },
   ],
   driver: [{ href: "/driver", label: "Today", icon: "truck", action: "home.view" }],

@@ -1,14 +1,14 @@
 "use client";
 
-import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { ColumnDef, SortingState } from "@tanstack/react-table";
+import { useQueryClient } from "@tanstack/react-query";
+import type { ColumnDef } from "@tanstack/react-table";
 import { useMemo, useState } from "react";
 import { toast } from "sonner";
 import { Badge, type BadgeTone } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { DataTable } from "@/components/ui/data-table";
 import { Input, Select } from "@/components/ui/input";
-import { fetchJson, toQueryString } from "@/lib/fetch-json";
+import { useServerTable } from "@/components/ui/use-server-table";
 import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
 import { formatDateTime } from "@/lib/format";
 import { resendInvitationAction, setUserStatusAction } from "@/lib/users/actions";
@@ -19,8 +19,6 @@ const STATUS: Record<UserListRow["status"], { label: string; tone: BadgeTone }> 
   invited: { label: "Invited", tone: "info" },
   disabled: { label: "Switched off", tone: "neutral" },
 };
-
-const PAGE_SIZE = 20;
 
 /** People in the caller's scope, paged and sorted on the server, with their account actions. */
 export function PeopleTable({
@@ -33,27 +31,17 @@ export function PeopleTable({
   currentUserId: number;
 }) {
   const queryClient = useQueryClient();
-  const [page, setPage] = useState(1);
-  const [sorting, setSorting] = useState<SortingState>([{ id: "name", desc: false }]);
   const [q, setQ] = useState("");
   const [role, setRole] = useState("");
   const [status, setStatus] = useState("");
-
-  const params = {
-    page,
-    pageSize: PAGE_SIZE,
-    sort: sorting[0]?.id ?? "name",
-    dir: sorting[0]?.desc ? "desc" : "asc",
-    q: q.trim(),
-    role,
-    status,
-  };
-  const { data, isFetching, error } = useQuery({
-    queryKey: ["users", params],
-    queryFn: () => fetchJson<{ rows: UserListRow[]; total: number }>(`/api/users${toQueryString(params)}`),
-    placeholderData: keepPreviousData,
-    refetchInterval: 30_000,
+  const table = useServerTable<UserListRow, Record<string, string>>({
+    queryKey: "users",
+    url: "/api/users",
+    defaultSort: { id: "name" },
+    filters: { q: q.trim(), role, status },
+    pageSize: 20,
   });
+  const setPage = table.setPage;
 
   const columns = useMemo<ColumnDef<UserListRow, unknown>[]>(() => {
     const run = async (label: string, action: () => Promise<{ ok: boolean; error?: { message: string } }>) => {
@@ -164,25 +152,22 @@ export function PeopleTable({
           <option value="disabled">Switched off</option>
         </Select>
       </div>
-      {error && (
+      {table.error && (
         <p role="alert" className="text-sm text-danger-700">
-          {error.message}
+          {table.error.message}
         </p>
       )}
       <DataTable
         caption="People"
         columns={columns}
-        rows={data?.rows ?? []}
-        total={data?.total ?? 0}
-        page={page}
-        pageSize={PAGE_SIZE}
-        sorting={sorting}
-        onSortingChange={(s) => {
-          setSorting(s);
-          setPage(1);
-        }}
-        onPageChange={setPage}
-        loading={isFetching}
+        rows={table.rows}
+        total={table.total}
+        page={table.page}
+        pageSize={table.pageSize}
+        sorting={table.sorting}
+        onSortingChange={table.setSorting}
+        onPageChange={table.setPage}
+        loading={table.isFetching}
         getRowId={(row) => String(row.id)}
       />
     </div>

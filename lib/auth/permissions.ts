@@ -13,20 +13,30 @@ export const ACTIONS = [
   "sites.view",
   "sites.manage",
   "audit.view",
+  "catalogue.view",
+  "catalogue.manage",
+  "sets.view",
+  "sets.manage",
+  "labels.print",
+  "contracts.view",
+  "contracts.manage",
+  "files.view",
+  "files.upload",
 ] as const;
 
 export type Action = (typeof ACTIONS)[number];
 
-const everyone: Action[] = ["home.view", "sites.view"];
+// What every signed-in role may read (always within its tenant scope).
+const everyone: Action[] = ["home.view", "sites.view", "catalogue.view", "sets.view", "files.view"];
 
 export const PERMISSIONS: Record<Role, readonly Action[]> = {
-  clinic_staff: [...everyone],
-  clinic_manager: [...everyone, "users.view", "users.invite", "users.manage"],
+  clinic_staff: [...everyone, "files.upload"],
+  clinic_manager: [...everyone, "files.upload", "users.view", "users.invite", "users.manage", "contracts.view"],
   dispatcher: [...everyone, "organisations.view"],
-  driver: [...everyone],
-  technician: [...everyone, "organisations.view"],
-  quality_lead: [...everyone, "organisations.view", "audit.view"],
-  finance: [...everyone, "organisations.view"],
+  driver: [...everyone, "files.upload"],
+  technician: [...everyone, "organisations.view", "labels.print", "files.upload"],
+  quality_lead: [...everyone, "organisations.view", "audit.view", "labels.print", "files.upload"],
+  finance: [...everyone, "organisations.view", "contracts.view", "contracts.manage", "files.upload"],
   admin: [
     ...everyone,
     "users.view",
@@ -36,6 +46,11 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "organisations.manage",
     "sites.manage",
     "audit.view",
+    "catalogue.manage",
+    "sets.manage",
+    "labels.print",
+    "contracts.view",
+    "files.upload",
   ],
 };
 

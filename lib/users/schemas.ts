@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { passwordSchema } from "@/lib/auth/password-rules";
 import { ROLES } from "@/lib/auth/roles";
+import { listQuerySchema } from "@/lib/http/paging";
 
 // Input shapes shared by the forms (zodResolver) and the server, which parses them again.
 
@@ -47,12 +48,7 @@ export const acceptInvitationSchema = z
   .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
 export type AcceptInvitationInput = z.input<typeof acceptInvitationSchema>;
 
-export const listUsersQuerySchema = z.object({
-  page: z.coerce.number().int().min(1).max(100_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
-  sort: z.enum(["name", "email", "role", "status", "organisation", "last_sign_in_at"]).default("name"),
-  dir: z.enum(["asc", "desc"]).default("asc"),
-  q: z.string().trim().max(100).optional(),
+export const listUsersQuerySchema = listQuerySchema(["name", "email", "role", "status", "organisation", "last_sign_in_at"], {
   role: z.enum(ROLES).optional(),
   status: z.enum(["invited", "active", "disabled"]).optional(),
   organisationId: z.coerce.number().int().positive().optional(),

@@ -2,7 +2,6 @@ import "server-only";
 import { createHash, randomBytes } from "node:crypto";
 import { addHours } from "date-fns";
 import type { Kysely } from "kysely";
-import { sql } from "kysely";
 import type { Database } from "@/db/schema";
 import { recordAudit } from "@/lib/audit/log";
 import { hashPassword } from "@/lib/auth/password";
@@ -10,6 +9,7 @@ import { CUSTOMER_ROLES, ROLE_LABELS, type Role, UNIT_ROLES } from "@/lib/auth/r
 import { tenantScope } from "@/lib/auth/scope";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { AppError, notFound } from "@/lib/errors";
+import { fetchPage, type Page, searchTerm } from "@/lib/http/paging";
 import { enqueueMail } from "@/lib/mail/outbox";
 import { invitationMail } from "@/lib/mail/templates";
 import type { ListUsersQuery } from "./schemas";
@@ -86,30 +86,14 @@ export async function listUsers(
   db: Kysely<Database>,
   user: SessionUser,
   query: ListUsersQuery,
-): Promise<{ rows: UserListRow[]; total: number }> {
+): Promise<Page<UserListRow>> {
   let base = scopedUsers(db, user);
-  if (query.q) {
-    const like = `%${query.q.replaceAll("\\", "\\\\").replaceAll("%", "\\%").replaceAll("_", "\\_")}%`;
-    base = base.where((eb) =>
-      eb.or([
-        sql<boolean>`users.name like ${like} escape '\\'`,
-        sql<boolean>`users.email like ${like} escape '\\'`,
-      ]),
-    );
-  }
+  if (query.q) base = base.where(searchTerm(["users.name", "users.email"], query.q));
   if (query.role) base = base.where("users.role", "=", query.role);
   if (query.status) base = base.where("users.status", "=", query.status);
   if (query.organisationId) base = base.where("users.organisation_id", "=", query.organisationId);
-
-  const { total } = await base.select((eb) => eb.fn.countAll<number>().as("total")).executeTakeFirstOrThrow();
-  const rows = await base
-    .select(USER_COLUMNS)
-    .orderBy(sql.ref(SORT_COLUMNS[query.sort]), query.dir)
-    .orderBy("users.id")
-    .limit(query.pageSize)
-    .offset((query.page - 1) * query.pageSize)
-    .execute();
-  return { total: Number(total), rows: rows.map(toListRow) };
+  const page = await fetchPage(base, (qb) => qb.select(USER_COLUMNS), query, SORT_COLUMNS[query.sort], "users.id");
+  return { total: page.total, rows: page.rows.map(toListRow) };
 }
 
 /** One user in the caller's scope, or 404. */

@@ -1,0 +1,57 @@
+"use client";
+
+import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import type { SortingState } from "@tanstack/react-table";
+import { useState } from "react";
+import { fetchJson, toQueryString } from "@/lib/fetch-json";
+import type { Page } from "@/lib/http/paging";
+
+/**
+ * The state of a table paged on the server: page, sorting and filters go into the query string
+ * of `url`; the rows come back through TanStack Query and refresh while the page stays open.
+ */
+export function useServerTable<Row, F extends Record<string, string | number | undefined>>({
+  queryKey,
+  url,
+  defaultSort,
+  filters,
+  pageSize = 25,
+  refetchIntervalMs = 30_000,
+}: {
+  queryKey: string;
+  url: string;
+  defaultSort: { id: string; desc?: boolean };
+  filters: F;
+  pageSize?: number;
+  refetchIntervalMs?: number;
+}) {
+  const [page, setPage] = useState(1);
+  const [sorting, setSorting] = useState<SortingState>([{ id: defaultSort.id, desc: !!defaultSort.desc }]);
+  const params = {
+    ...filters,
+    page,
+    pageSize,
+    sort: sorting[0]?.id ?? defaultSort.id,
+    dir: sorting[0]?.desc ? "desc" : "asc",
+  };
+  const query = useQuery({
+    queryKey: [queryKey, params],
+    queryFn: () => fetchJson<Page<Row>>(`${url}${toQueryString(params)}`),
+    placeholderData: keepPreviousData,
+    refetchInterval: refetchIntervalMs,
+  });
+  return {
+    page,
+    setPage,
+    pageSize,
+    sorting,
+    setSorting: (s: SortingState) => {
+      setSorting(s);
+      setPage(1);
+    },
+    rows: query.data?.rows ?? [],
+    total: query.data?.total ?? 0,
+    isFetching: query.isFetching,
+    error: query.error,
+  };
+}
