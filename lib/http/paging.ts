@@ -4,7 +4,7 @@ import { z } from "zod";
 // Server-side paging, sorting and searching for the tables that fetch through route handlers.
 
 /** The query-string schema of a paged list: page, pageSize, sort (one of `sorts`), dir and q. */
-export function listQuerySchema<const S extends readonly [string, ...string[]], E extends z.ZodRawShape = {}>(
+export function listQuerySchema<const S extends readonly [string, ...string[]], E extends z.ZodRawShape = Record<never, never>>(
   sorts: S,
   extra?: E,
 ) {
