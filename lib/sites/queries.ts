@@ -4,7 +4,9 @@ import type { Database } from "@/db/schema";
 import { tenantScope } from "@/lib/auth/scope";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { notFound } from "@/lib/errors";
+import { fetchPage, type Page, searchTerm } from "@/lib/http/paging";
 import { type OpeningHours, parseOpeningHours } from "./opening-hours";
+import type { ListSitesQuery } from "./schemas";
 
 // Sites as the caller may see them: scoped to their organisation (clinic staff: their site).
 
@@ -70,6 +72,32 @@ export async function listSites(
   if (filter.organisationId) query = query.where("sites.organisation_id", "=", filter.organisationId);
   const rows = await query.orderBy("organisations.name").orderBy("sites.name").execute();
   return rows.map(toView);
+}
+
+const SORTS = {
+  name: "sites.name",
+  organisation: "organisations.name",
+  town: "sites.town",
+  postcode: "sites.postcode",
+} as const;
+
+/** One page of sites for the sites table, filtered and sorted on the server. */
+export async function listSitesPage(db: Kysely<Database>, user: SessionUser, query: ListSitesQuery): Promise<Page<SiteView>> {
+  let base = db
+    .selectFrom("sites")
+    .innerJoin("organisations", "organisations.id", "sites.organisation_id")
+    .where(tenantScope(user, { organisation: "sites.organisation_id", site: "sites.id" }));
+  if (query.q) base = base.where(searchTerm(["sites.name", "sites.town", "sites.postcode", "organisations.name"], query.q));
+  if (query.organisationId) base = base.where("sites.organisation_id", "=", query.organisationId);
+  if (query.active) base = base.where("sites.active", "=", query.active === "yes" ? 1 : 0);
+  const page = await fetchPage(
+    base,
+    (qb) => qb.selectAll("sites").select("organisations.name as organisation_name"),
+    query,
+    SORTS[query.sort],
+    "sites.id",
+  );
+  return { total: page.total, rows: page.rows.map(toView) };
 }
 
 /** One site, or a 404 when it does not exist or belongs to another tenant. */

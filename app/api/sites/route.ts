@@ -1,11 +1,8 @@
-// GET /api/sites — sites in the caller's scope
-import { z } from "zod";
+// GET /api/sites — sites in the caller's scope, paged, sorted and filtered
 import { parseQuery, withAuth } from "@/lib/http/route";
-import { listSites } from "@/lib/sites/queries";
-
-const querySchema = z.object({ organisationId: z.coerce.number().int().positive().optional() });
+import { listSitesPage } from "@/lib/sites/queries";
+import { listSitesQuerySchema } from "@/lib/sites/schemas";
 
 export const GET = withAuth("sites.view", async ({ req, db, user }) => {
-  const query = parseQuery(req, querySchema);
-  return { rows: await listSites(db, user, query) };
+  return listSitesPage(db, user, parseQuery(req, listSitesQuerySchema));
 });
