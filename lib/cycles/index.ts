@@ -15,3 +15,4 @@ export * from "./f0";
 export * from "./sterilizer";
 export * from "./synth";
 export * from "./csv";
+export * from "./lifecycle";
