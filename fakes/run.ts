@@ -16,6 +16,7 @@ async function main() {
     port: Number(process.env.PORT ?? 3000),
     mailSmtpPort: Number(process.env.MAIL_SMTP_PORT ?? 1025),
     mailWebPort: Number(process.env.MAIL_WEB_PORT ?? 1080),
+    stripePort: Number(process.env.STRIPE_FAKE_PORT ?? 12111),
   };
   const env = stackEnv(options);
   const tsx = path.join("node_modules", ".bin", "tsx");
@@ -46,6 +47,7 @@ async function main() {
   console.log(`
 Steamlane is running at ${stack.appUrl}
 Mail sent by the app arrives in the local inbox at ${stack.mailUrl}
+Payments go to the local stand-in for Stripe at ${stack.stripeUrl}
 
 Demo sign-ins (password for all: ${DEMO_PASSWORD}):
 ${DEMO_PEOPLE.map((p) => `  ${p.email.padEnd(width)}  ${ROLE_LABELS[p.role]}`).join("\n")}

@@ -4,7 +4,7 @@ import path from "node:path";
 import { type Child, startChild, waitForHttp } from "./processes";
 
 // The whole local stack: the Next.js server, the outbox worker and the local stand-ins for the
-// hosted services (the maildev SMTP catcher). Used by `npm run demo`, `npm run dev` and the
+// hosted services (the maildev SMTP catcher and the fake Stripe server). Used by `npm run demo`, `npm run dev` and the
 // end-to-end tests.
 
 export interface StackOptions {
@@ -13,12 +13,14 @@ export interface StackOptions {
   port: number;
   mailSmtpPort: number;
   mailWebPort: number;
+  stripePort: number;
   quiet?: boolean;
 }
 
 export interface Stack {
   appUrl: string;
   mailUrl: string;
+  stripeUrl: string;
   env: Record<string, string>;
   stop(): Promise<void>;
 }
@@ -45,6 +47,12 @@ export function stackEnv(options: StackOptions): Record<string, string> {
     NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? persistentSecret(options.dataDir),
     SMTP_HOST: "127.0.0.1",
     SMTP_PORT: String(options.mailSmtpPort),
+    // The Stripe SDK talks to the local fake; the key and webhook secret are the fake's own.
+    STRIPE_SECRET_KEY: "sk_test_steamlane_local",
+    STRIPE_WEBHOOK_SECRET: "whsec_steamlane_local_webhook_secret",
+    STRIPE_API_HOST: "127.0.0.1",
+    STRIPE_API_PORT: String(options.stripePort),
+    STRIPE_API_PROTOCOL: "http",
     NEXT_TELEMETRY_DISABLED: "1",
   };
 }
@@ -74,6 +82,22 @@ export async function startStack(options: StackOptions): Promise<Stack> {
     const mailUrl = `http://127.0.0.1:${options.mailWebPort}`;
     await waitForHttp(`${mailUrl}/api/healthz`, 30_000, maildev);
 
+    const stripeUrl = `http://127.0.0.1:${options.stripePort}`;
+    const stripe = startChild("payments", bin("tsx"), ["fakes/stripe/cli.ts"], {
+      env: {
+        ...env,
+        STRIPE_FAKE_PORT: String(options.stripePort),
+        STRIPE_FAKE_DATA_FILE: path.join(options.dataDir, "fake-stripe.json"),
+        STRIPE_FAKE_PUBLIC_URL: stripeUrl,
+        STRIPE_WEBHOOK_URL: `${env.APP_URL}/api/webhooks/stripe`,
+        STRIPE_FAKE_CURRENCY: "gbp",
+        STRIPE_FAKE_ACCOUNT_NAME: "Larkmoor Sterile Services",
+      },
+      quiet: options.quiet,
+    });
+    children.push(stripe);
+    await waitForHttp(`${stripeUrl}/_fake/health`, 30_000, stripe);
+
     children.push(startChild("outbox", bin("tsx"), ["lib/mail/worker-cli.ts"], { env, quiet: options.quiet }));
 
     const next = startChild(
@@ -85,7 +109,7 @@ export async function startStack(options: StackOptions): Promise<Stack> {
     children.push(next);
     const appUrl = env.APP_URL;
     await waitForHttp(`http://127.0.0.1:${options.port}/sign-in`, 120_000, next);
-    return { appUrl, mailUrl, env, stop };
+    return { appUrl, mailUrl, stripeUrl, env, stop };
   } catch (error) {
     await stop();
     throw error;

@@ -22,6 +22,13 @@ const serverEnvSchema = z.object({
   MAIL_FROM: z.string().min(3).default("Steamlane <no-reply@larkmoor.example>"),
   /** "off" stops the in-process outbox worker (tests drive the outbox themselves). */
   MAIL_WORKER: z.enum(["on", "off"]).default("on"),
+  /** The payment service: Stripe's API through the `stripe` SDK (the local fake in development). */
+  STRIPE_SECRET_KEY: z.string().startsWith("sk_").optional(),
+  STRIPE_WEBHOOK_SECRET: z.string().startsWith("whsec_").optional(),
+  /** Set only to point the SDK at another host, as the local fake does. */
+  STRIPE_API_HOST: z.string().min(1).optional(),
+  STRIPE_API_PORT: z.coerce.number().int().positive().optional(),
+  STRIPE_API_PROTOCOL: z.enum(["http", "https"]).optional(),
   /** The unit's own time zone: service calendars, dates on labels and invoices. */
   UNIT_TIME_ZONE: z.string().min(1).default("Europe/London"),
 });

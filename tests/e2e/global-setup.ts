@@ -11,6 +11,7 @@ declare module "vitest" {
   export interface ProvidedContext {
     appUrl: string;
     mailUrl: string;
+    stripeUrl: string;
     dataDir: string;
   }
 }
@@ -30,12 +31,14 @@ export default async function setup(project: TestProject) {
     port: Number(process.env.E2E_PORT ?? 3210),
     mailSmtpPort: Number(process.env.E2E_SMTP_PORT ?? 2525),
     mailWebPort: Number(process.env.E2E_MAIL_WEB_PORT ?? 2580),
+    stripePort: Number(process.env.E2E_STRIPE_PORT ?? 12211),
     quiet: !process.env.E2E_VERBOSE,
   };
   await runToEnd(path.join("node_modules", ".bin", "tsx"), ["db/seed/index.ts"], stackEnv(options));
   stack = await startStack(options);
   project.provide("appUrl", stack.appUrl);
   project.provide("mailUrl", stack.mailUrl);
+  project.provide("stripeUrl", stack.stripeUrl);
   project.provide("dataDir", dataDir);
   return async () => {
     await stack?.stop();

@@ -67,6 +67,29 @@ describe("signing in", () => {
     }
   });
 
+  it("serves pages with security headers and a content security policy they pass", async () => {
+    const { context, page } = await newPage(browser);
+    const violations: string[] = [];
+    page.on("console", (message) => {
+      if (/Content Security Policy|Refused to/i.test(message.text())) violations.push(message.text());
+    });
+    try {
+      const response = await page.goto("/sign-in");
+      const headers = response!.headers();
+      expect(headers["content-security-policy"]).toContain("default-src 'self'");
+      expect(headers["x-frame-options"]).toBe("DENY");
+      expect(headers["x-content-type-options"]).toBe("nosniff");
+      await signIn(page, "admin@larkmoor.example", DEMO_PASSWORD);
+      await expectPath(page, "/unit");
+      await page.getByRole("link", { name: "People" }).first().click();
+      await expectPath(page, "/unit/users");
+      await expect.poll(() => page.getByRole("cell", { name: /Imogen Harcastle/ }).count()).toBeGreaterThan(0);
+      expect(violations).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  });
+
   it("signs out", async () => {
     const { context, page } = await newPage(browser);
     try {

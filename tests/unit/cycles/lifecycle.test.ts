@@ -36,7 +36,7 @@ describe("the cycle state machine", () => {
   it("walks the main line from booking to delivery", () => {
     const events: CycleEvent[] = ["collect", "receive", "wash_passed", "pack", "sterilise", "release", "dispatch", "deliver"];
     let state: CycleState = "booked";
-    const visited = [state];
+    const visited: CycleState[] = [state];
     for (const event of events) {
       const result = transition(state, event);
       if (!result.ok) throw new Error(result.reason);
