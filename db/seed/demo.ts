@@ -3,6 +3,9 @@ import type { Database } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
 import { DEMO_ORGANISATIONS } from "./organisations";
 import { DEMO_PASSWORD, DEMO_PEOPLE } from "./people";
+import { seedContracts } from "./contracts";
+import { seedCatalogue } from "./catalogue";
+import { seedSets } from "./sets";
 
 // Writes the demo scenario into an empty, migrated database, in one transaction.
 
@@ -10,6 +13,12 @@ export interface SeedResult {
   organisations: Record<string, number>;
   sites: Record<string, number>;
   users: Record<string, number>;
+  /** Contract versions by reference. */
+  contracts?: Record<string, number>;
+  /** Set type ids by organisation short code, then set type code. */
+  setTypes?: Record<string, Record<string, number>>;
+  /** Set ids by serial. */
+  sets?: Record<string, number>;
 }
 
 export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<SeedResult> {
@@ -77,6 +86,9 @@ export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<
         .executeTakeFirstOrThrow();
       result.users[person.email] = id;
     }
+    await seedCatalogue(trx, result, now);
+    result.sets = await seedSets(trx, result, now);
+    await seedContracts(trx, result, now);
     return result;
   });
 }

@@ -51,3 +51,20 @@ export const PROCESSING_FLAG_LABELS: Record<ProcessingFlag, string> = {
 export function isSetClass(value: string): value is SetClass {
   return (SET_CLASSES as readonly string[]).includes(value);
 }
+
+export function isPackaging(value: string): value is Packaging {
+  return (PACKAGINGS as readonly string[]).includes(value);
+}
+
+export function isSterilisationMethod(value: string): value is SterilisationMethod {
+  return (STERILISATION_METHODS as readonly string[]).includes(value);
+}
+
+export function isProcessingFlag(value: string): value is ProcessingFlag {
+  return (PROCESSING_FLAGS as readonly string[]).includes(value);
+}
+
+/** Loaner sets travel with their supplier's instructions for use; bookings refuse them without one. */
+export function expectsIfu(setClass: string): boolean {
+  return setClass === "loaner_set";
+}
