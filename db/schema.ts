@@ -199,6 +199,122 @@ export interface ContractSurchargesTable {
   basis_points: number | null;
 }
 
+export type OrderKind = "pickup" | "store_request";
+export type OrderStatus = "booked" | "collected" | "in_process" | "ready" | "out_for_delivery" | "delivered" | "cancelled";
+
+export interface OrdersTable {
+  id: Generated<number>;
+  organisation_id: number;
+  site_id: number;
+  reference: string;
+  kind: OrderKind;
+  status: OrderStatus;
+  service_level: "standard" | "express";
+  collection_from: string | null;
+  collection_until: string | null;
+  needed_back_by: string | null;
+  promised_return_at: string | null;
+  heavy_soil: Generated<number>;
+  out_of_hours: Generated<number>;
+  notes: string | null;
+  created_by: number | null;
+  created_at: string;
+  updated_at: string;
+  collected_at: string | null;
+  cancelled_at: string | null;
+}
+
+export interface OrderExtrasTable {
+  id: Generated<number>;
+  order_id: number;
+  description: string;
+  quantity: number;
+}
+
+export interface CyclesTable {
+  id: Generated<number>;
+  organisation_id: number;
+  site_id: number;
+  set_id: number;
+  order_id: number | null;
+  keep_in_store: Generated<number>;
+  return_order_id: number | null;
+  state: string;
+  held_from: string | null;
+  hold_reason: string | null;
+  service_level: "standard" | "express";
+  heavy_soil: Generated<number>;
+  out_of_hours: Generated<number>;
+  loaner: Generated<number>;
+  missing_instrument: Generated<number>;
+  needed_back_by: string | null;
+  promised_at: string | null;
+  booked_at: string;
+  collected_at: string | null;
+  received_at: string | null;
+  washed_at: string | null;
+  packed_at: string | null;
+  sterilised_at: string | null;
+  released_at: string | null;
+  dispatched_at: string | null;
+  delivered_at: string | null;
+  cancelled_at: string | null;
+  expires_on: string | null;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface ScanEventsTable {
+  id: Generated<number>;
+  cycle_id: number;
+  set_id: number;
+  organisation_id: number;
+  event: string;
+  from_state: string | null;
+  to_state: string;
+  station: string;
+  batch_id: number | null;
+  load_id: number | null;
+  user_id: number | null;
+  at: string;
+  client_event_id: string | null;
+  details: Generated<string>;
+}
+
+export type ProblemKind = "missing_instrument" | "damaged_instrument" | "wet_or_torn_pack" | "wrong_set" | "other";
+
+export interface ProblemsTable {
+  id: Generated<number>;
+  organisation_id: number;
+  site_id: number;
+  order_id: number | null;
+  cycle_id: number | null;
+  set_id: number | null;
+  kind: ProblemKind;
+  description: string;
+  photo_file_id: number | null;
+  status: "open" | "answered";
+  answer: string | null;
+  answered_by: number | null;
+  answered_at: string | null;
+  reported_by: number | null;
+  created_at: string;
+}
+
+export interface ProcedureUsesTable {
+  id: Generated<number>;
+  organisation_id: number;
+  site_id: number;
+  cycle_id: number;
+  set_id: number;
+  theatre: string;
+  case_reference: string;
+  pack_checked: number;
+  indicator_checked: number;
+  recorded_by: number | null;
+  used_at: string;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   sites: SitesTable;
@@ -214,6 +330,12 @@ export interface Database {
   contracts: ContractsTable;
   contract_rates: ContractRatesTable;
   contract_surcharges: ContractSurchargesTable;
+  orders: OrdersTable;
+  order_extras: OrderExtrasTable;
+  cycles: CyclesTable;
+  scan_events: ScanEventsTable;
+  problems: ProblemsTable;
+  procedure_uses: ProcedureUsesTable;
 }
 
 export type Organisation = Selectable<OrganisationsTable>;
@@ -227,3 +349,6 @@ export type FileRow = Selectable<FilesTable>;
 export type SetType = Selectable<SetTypesTable>;
 export type SetRow = Selectable<SetsTable>;
 export type Contract = Selectable<ContractsTable>;
+export type Order = Selectable<OrdersTable>;
+export type CycleRow = Selectable<CyclesTable>;
+export type ScanEvent = Selectable<ScanEventsTable>;

@@ -16,12 +16,15 @@ export const NAVIGATION: Record<Audience, NavItem[]> = {
   clinic: [
     { href: "/clinic", label: "Overview", icon: "home", action: "home.view" },
     { href: "/clinic/sites", label: "Our sites", icon: "map-pin", action: "sites.view" },
+    { href: "/clinic/orders", label: "Pickups and returns", icon: "truck", action: "orders.view" },
+    { href: "/clinic/sets", label: "Our sets", icon: "barcode", action: "sets.view" },
     { href: "/clinic/catalogue", label: "Set catalogue", icon: "book", action: "catalogue.view" },
     { href: "/clinic/contract", label: "Contract", icon: "file-text", action: "contracts.view" },
     { href: "/clinic/team", label: "Team", icon: "users", action: "users.view" },
   ],
   unit: [
     { href: "/unit", label: "Overview", icon: "home", action: "home.view" },
+    { href: "/unit/orders", label: "Orders", icon: "truck", action: "orders.view" },
     { href: "/unit/customers", label: "Customers", icon: "building", action: "organisations.view" },
     { href: "/unit/sites", label: "Sites", icon: "map-pin", action: "sites.view" },
     { href: "/unit/catalogue", label: "Set catalogue", icon: "book", action: "catalogue.view" },

@@ -22,6 +22,11 @@ export const ACTIONS = [
   "contracts.manage",
   "files.view",
   "files.upload",
+  "orders.view",
+  "orders.book",
+  "problems.report",
+  "problems.answer",
+  "procedures.record",
 ] as const;
 
 export type Action = (typeof ACTIONS)[number];
@@ -30,13 +35,24 @@ export type Action = (typeof ACTIONS)[number];
 const everyone: Action[] = ["home.view", "sites.view", "catalogue.view", "sets.view", "files.view"];
 
 export const PERMISSIONS: Record<Role, readonly Action[]> = {
-  clinic_staff: [...everyone, "files.upload"],
-  clinic_manager: [...everyone, "files.upload", "users.view", "users.invite", "users.manage", "contracts.view"],
-  dispatcher: [...everyone, "organisations.view"],
+  clinic_staff: [...everyone, "files.upload", "orders.view", "orders.book", "problems.report", "procedures.record"],
+  clinic_manager: [
+    ...everyone,
+    "files.upload",
+    "users.view",
+    "users.invite",
+    "users.manage",
+    "contracts.view",
+    "orders.view",
+    "orders.book",
+    "problems.report",
+    "procedures.record",
+  ],
+  dispatcher: [...everyone, "organisations.view", "orders.view", "problems.answer"],
   driver: [...everyone, "files.upload"],
-  technician: [...everyone, "organisations.view", "labels.print", "files.upload"],
-  quality_lead: [...everyone, "organisations.view", "audit.view", "labels.print", "files.upload"],
-  finance: [...everyone, "organisations.view", "contracts.view", "contracts.manage", "files.upload"],
+  technician: [...everyone, "organisations.view", "labels.print", "files.upload", "orders.view", "problems.answer"],
+  quality_lead: [...everyone, "organisations.view", "audit.view", "labels.print", "files.upload", "orders.view", "problems.answer"],
+  finance: [...everyone, "organisations.view", "contracts.view", "contracts.manage", "files.upload", "orders.view"],
   admin: [
     ...everyone,
     "users.view",
@@ -51,6 +67,8 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "labels.print",
     "contracts.view",
     "files.upload",
+    "orders.view",
+    "problems.answer",
   ],
 };
 

@@ -1,0 +1,42 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { CancelOrderButton } from "@/components/orders/cancel-order-button";
+import { OrderDetailView } from "@/components/orders/order-detail-view";
+import { OrderStatusBadge } from "@/components/orders/order-status-badge";
+import { Button } from "@/components/ui/button";
+import { PageHeader } from "@/components/ui/page-header";
+import { getDb } from "@/db";
+import { requirePermission } from "@/lib/auth/current-user";
+import { can } from "@/lib/auth/permissions";
+import { serverEnv } from "@/lib/env";
+import { orderForPage } from "@/lib/orders/pages";
+
+export const metadata: Metadata = { title: "Order" };
+
+export default async function ClinicOrderPage({ params }: { params: Promise<{ id: string }> }) {
+  const user = await requirePermission("orders.view");
+  const order = await orderForPage(getDb(), user, (await params).id);
+  const changeable = order.status === "booked" && can(user.role, "orders.book");
+  return (
+    <>
+      <PageHeader
+        title={`Pickup ${order.reference}`}
+        description={`${order.siteName}`}
+        actions={
+          <>
+            <OrderStatusBadge status={order.status} />
+            {changeable && (
+              <>
+                <Button variant="secondary" asChild>
+                  <Link href={`/clinic/orders/${order.id}/edit`}>Change booking</Link>
+                </Button>
+                <CancelOrderButton orderId={order.id} reference={order.reference} />
+              </>
+            )}
+          </>
+        }
+      />
+      <OrderDetailView order={order} timeZone={serverEnv().UNIT_TIME_ZONE} />
+    </>
+  );
+}
