@@ -3,6 +3,13 @@ import { type ChildProcess, spawn } from "node:child_process";
 // Starting and stopping the child processes of the local stack, each in its own process group
 // so that stopping it also stops whatever it started.
 
+/**
+ * Node's "react-server" export condition for scripts (seed, worker) that import the app's
+ * server modules: their `import "server-only"` guard then resolves to its empty module, as it
+ * does inside Next's server bundle.
+ */
+export const SERVER_CONDITION = "--conditions=react-server";
+
 export interface Child {
   name: string;
   process: ChildProcess;

@@ -5,7 +5,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { DEMO_PASSWORD, DEMO_PEOPLE } from "@/db/seed/people";
 import { ROLE_LABELS } from "@/lib/auth/roles";
-import { runToEnd } from "./processes";
+import { runToEnd, SERVER_CONDITION } from "./processes";
 import { stackEnv, startStack, type StackOptions } from "./stack";
 
 async function main() {
@@ -28,7 +28,7 @@ async function main() {
     }
     fs.rmSync(path.join(options.dataDir, "uploads"), { recursive: true, force: true });
     fs.rmSync(path.join(options.dataDir, "mail"), { recursive: true, force: true });
-    await runToEnd(tsx, ["db/seed/index.ts"], env);
+    await runToEnd(tsx, [SERVER_CONDITION, "db/seed/index.ts"], env);
     if (process.env.SKIP_BUILD !== "1") await runToEnd(path.join("node_modules", ".bin", "next"), ["build"], env);
   } else {
     await runToEnd(tsx, ["db/migrate.ts"], env);

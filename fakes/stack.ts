@@ -1,7 +1,7 @@
 import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
-import { type Child, startChild, waitForHttp } from "./processes";
+import { type Child, SERVER_CONDITION, startChild, waitForHttp } from "./processes";
 
 // The whole local stack: the Next.js server, the outbox worker and the local stand-ins for the
 // hosted services (the maildev SMTP catcher and the fake Stripe server). Used by `npm run demo`, `npm run dev` and the
@@ -98,7 +98,7 @@ export async function startStack(options: StackOptions): Promise<Stack> {
     children.push(stripe);
     await waitForHttp(`${stripeUrl}/_fake/health`, 30_000, stripe);
 
-    children.push(startChild("outbox", bin("tsx"), ["lib/mail/worker-cli.ts"], { env, quiet: options.quiet }));
+    children.push(startChild("outbox", bin("tsx"), [SERVER_CONDITION, "lib/mail/worker-cli.ts"], { env, quiet: options.quiet }));
 
     const next = startChild(
       "app",

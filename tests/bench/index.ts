@@ -1,4 +1,5 @@
-// `npm run bench`: every benchmark in this folder, one after the other.
+// `npm run bench`: every benchmark in this folder, one after the other (with the server
+// condition, so benchmarks may import the app's server modules).
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
@@ -12,7 +13,7 @@ const benches = fs
 let failed = 0;
 for (const bench of benches) {
   console.log(`\n## ${bench}\n`);
-  const run = spawnSync(path.join("node_modules", ".bin", "tsx"), [path.join(here, bench)], { stdio: "inherit" });
+  const run = spawnSync(path.join("node_modules", ".bin", "tsx"), ["--conditions=react-server", path.join(here, bench)], { stdio: "inherit" });
   if (run.status !== 0) failed++;
 }
 process.exit(failed ? 1 : 0);

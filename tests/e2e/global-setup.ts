@@ -2,7 +2,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
-import { runToEnd } from "@/fakes/processes";
+import { runToEnd, SERVER_CONDITION } from "@/fakes/processes";
 import { type Stack, stackEnv, startStack, type StackOptions } from "@/fakes/stack";
 
 // Starts the production build with a fresh demo database and the mail catcher, once for the suite.
@@ -34,7 +34,7 @@ export default async function setup(project: TestProject) {
     stripePort: Number(process.env.E2E_STRIPE_PORT ?? 12211),
     quiet: !process.env.E2E_VERBOSE,
   };
-  await runToEnd(path.join("node_modules", ".bin", "tsx"), ["db/seed/index.ts"], stackEnv(options));
+  await runToEnd(path.join("node_modules", ".bin", "tsx"), [SERVER_CONDITION, "db/seed/index.ts"], stackEnv(options));
   stack = await startStack(options);
   project.provide("appUrl", stack.appUrl);
   project.provide("mailUrl", stack.mailUrl);
