@@ -141,6 +141,8 @@ export function BookingForm({
     router.refresh();
   };
 
+  // Once the preview finds nothing wrong, an earlier refusal no longer applies.
+  const previewClear = preview.data?.problems.length === 0;
   const shown = sets.filter((s) => !filter || `${s.serial} ${s.name}`.toLowerCase().includes(filter.toLowerCase()));
   const p = preview.data;
   const quote = p?.quote;
@@ -148,7 +150,7 @@ export function BookingForm({
   return (
     <form onSubmit={handleSubmit(onSubmit)} noValidate className="grid gap-6 lg:grid-cols-[1fr_22rem]">
       <div className="space-y-6">
-        <FormError message={formError} />
+        <FormError message={previewClear ? null : formError} />
         <Card>
           <CardHeader title="Where and which sets" />
           <CardBody className="space-y-4">
@@ -276,6 +278,10 @@ export function BookingForm({
             <label className="flex items-center gap-3 text-sm sm:col-span-2">
               <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("heavySoil")} />
               Heavily soiled, or not pre-cleaned at the point of use (a surcharge applies)
+            </label>
+            <label className="flex items-center gap-3 text-sm sm:col-span-2">
+              <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("keepInStore")} />
+              Keep the sets in the unit&apos;s store after processing; we will ask for them when needed
             </label>
             <Field id="notes" label="Notes for the unit (optional)" error={errors.notes?.message} className="sm:col-span-2">
               <Textarea id="notes" {...register("notes")} />

@@ -1,7 +1,7 @@
 "use client";
 
 import * as DialogPrimitive from "@radix-ui/react-dialog";
-import { Barcode, BookOpen, Building2, FileText, Home, LogOut, MapPin, Menu, Truck, Users, X } from "lucide-react";
+import { Archive, Barcode, BookOpen, Building2, FileText, Home, LogOut, MapPin, Menu, Truck, Users, X } from "lucide-react";
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { signOut } from "next-auth/react";
@@ -19,6 +19,7 @@ const ICONS: Record<NavIcon, typeof Home> = {
   book: BookOpen,
   barcode: Barcode,
   "file-text": FileText,
+  archive: Archive,
 };
 
 export interface ShellUser {

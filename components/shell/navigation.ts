@@ -3,7 +3,7 @@ import type { Audience } from "@/lib/auth/roles";
 
 // The navigation of each audience. An entry shows only when the role may do its action.
 
-export type NavIcon = "home" | "users" | "map-pin" | "truck" | "building" | "book" | "barcode" | "file-text";
+export type NavIcon = "home" | "users" | "map-pin" | "truck" | "building" | "book" | "barcode" | "file-text" | "archive";
 
 export interface NavItem {
   href: string;
@@ -17,6 +17,7 @@ export const NAVIGATION: Record<Audience, NavItem[]> = {
     { href: "/clinic", label: "Overview", icon: "home", action: "home.view" },
     { href: "/clinic/sites", label: "Our sites", icon: "map-pin", action: "sites.view" },
     { href: "/clinic/orders", label: "Pickups and returns", icon: "truck", action: "orders.view" },
+    { href: "/clinic/store", label: "In the unit's store", icon: "archive", action: "orders.view" },
     { href: "/clinic/sets", label: "Our sets", icon: "barcode", action: "sets.view" },
     { href: "/clinic/catalogue", label: "Set catalogue", icon: "book", action: "catalogue.view" },
     { href: "/clinic/contract", label: "Contract", icon: "file-text", action: "contracts.view" },

@@ -45,6 +45,7 @@ export interface OpenCycleInput {
   heavySoil: boolean;
   outOfHours: boolean;
   loaner: boolean;
+  keepInStore?: boolean;
   neededBackBy: string | null;
   promisedAt: string | null;
   userId: number | null;
@@ -73,6 +74,7 @@ export async function openCycle(db: Executor, input: OpenCycleInput): Promise<nu
       heavy_soil: input.heavySoil ? 1 : 0,
       out_of_hours: input.outOfHours ? 1 : 0,
       loaner: input.loaner ? 1 : 0,
+      keep_in_store: input.keepInStore ? 1 : 0,
       needed_back_by: input.neededBackBy,
       promised_at: input.promisedAt,
       booked_at: iso,
@@ -213,7 +215,8 @@ export async function refreshOrderStatus(db: Executor, orderId: number, at: Date
   const rows = await db.selectFrom("cycles").select("state").where(column, "=", orderId).execute();
   const states = rows.map((r) => r.state as CycleState);
   const status = orderStatusFrom(states, !!order.cancelled_at);
-  const collected = order.collected_at ?? (status !== "booked" && status !== "cancelled" ? at.toISOString() : null);
+  const collected =
+    order.collected_at ?? (order.kind === "pickup" && status !== "booked" && status !== "cancelled" ? at.toISOString() : null);
   if (status !== order.status || collected !== order.collected_at) {
     await db.updateTable("orders").set({ status, collected_at: collected, updated_at: at.toISOString() }).where("id", "=", orderId).execute();
   }

@@ -1,8 +1,9 @@
 "use server";
 
 import { defineAction } from "@/lib/http/action";
-import { amendBookingSchema, bookingSchema, cancelOrderSchema } from "./schemas";
+import { amendBookingSchema, bookingSchema, cancelOrderSchema, storeRequestSchema } from "./schemas";
 import { amendPickup, bookPickup, cancelPickup } from "./service";
+import { requestFromStore } from "./store-requests";
 
 // Server actions for booking, amending and cancelling pickups.
 
@@ -18,3 +19,5 @@ export const cancelPickupAction = defineAction("orders.book", cancelOrderSchema,
   return { orderId: input.orderId };
 });
 
+
+export const requestFromStoreAction = defineAction("orders.book", storeRequestSchema, ({ db, user }, input) => requestFromStore(db, user, input));

@@ -18,6 +18,7 @@ export function newBookingDefaults(siteId: number, now: Date, timeZone: string):
     neededBackBy: day(3, 17),
     serviceLevel: "standard",
     heavySoil: false,
+    keepInStore: false,
     notes: "",
   };
 }
@@ -34,6 +35,7 @@ export function amendDefaults(order: OrderDetail, timeZone: string): BookingInpu
     neededBackBy: text(order.neededBackBy),
     serviceLevel: order.serviceLevel,
     heavySoil: order.heavySoil,
+    keepInStore: order.keepInStore,
     notes: order.notes ?? "",
   };
 }

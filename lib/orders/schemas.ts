@@ -33,6 +33,8 @@ export const bookingSchema = z
     neededBackBy: localDateTime("needed-back-by"),
     serviceLevel: z.enum(["standard", "express"], { error: "Choose standard or express." }),
     heavySoil: z.boolean(),
+    /** Keep the sets in the unit's store after processing, until the clinic asks for them. */
+    keepInStore: z.boolean().default(false),
     notes: z
       .string()
       .trim()
@@ -45,6 +47,22 @@ export type BookingInput = z.input<typeof bookingSchema>;
 export type BookingFields = z.output<typeof bookingSchema>;
 
 export const amendBookingSchema = bookingSchema.safeExtend({ orderId: z.coerce.number().int().positive() });
+
+export const storeRequestSchema = z.object({
+  siteId: z.coerce.number().int().positive("Choose the site."),
+  cycleIds: z
+    .array(z.coerce.number().int().positive())
+    .min(1, "Choose at least one set from the store.")
+    .max(200, "Ask for at most 200 sets at once.")
+    .refine((ids) => new Set(ids).size === ids.length, "A set is listed twice."),
+  neededBy: localDateTime("needed-by"),
+  notes: z
+    .string()
+    .trim()
+    .max(1000, "Use at most 1000 characters.")
+    .transform((v) => v || null),
+});
+export type StoreRequestInput = z.input<typeof storeRequestSchema>;
 
 export const cancelOrderSchema = z.object({
   orderId: z.coerce.number().int().positive(),

@@ -84,6 +84,7 @@ export async function bookPickup(
         heavySoil: input.heavySoil,
         outOfHours: assessment.outOfHours,
         loaner: set.loaner,
+        keepInStore: input.keepInStore,
         neededBackBy: neededBackBy!.toISOString(),
         promisedAt: plan!.promisedAt.toISOString(),
         userId: user.id,
@@ -145,6 +146,7 @@ export async function amendPickup(
         heavySoil: input.heavySoil,
         outOfHours: assessment.outOfHours,
         loaner: set.loaner,
+        keepInStore: input.keepInStore,
         neededBackBy: assessment.neededBackBy!.toISOString(),
         promisedAt: assessment.plan!.promisedAt.toISOString(),
         userId: user.id,
@@ -157,6 +159,7 @@ export async function amendPickup(
         service_level: input.serviceLevel,
         heavy_soil: input.heavySoil ? 1 : 0,
         out_of_hours: assessment.outOfHours ? 1 : 0,
+        keep_in_store: input.keepInStore ? 1 : 0,
         needed_back_by: assessment.neededBackBy!.toISOString(),
         promised_at: assessment.plan!.promisedAt.toISOString(),
         updated_at: iso,
@@ -325,6 +328,7 @@ export interface OrderCycleView {
 
 export interface OrderDetail extends OrderListRow {
   heavySoil: boolean;
+  keepInStore: boolean;
   outOfHours: boolean;
   notes: string | null;
   collectedAt: string | null;
@@ -388,6 +392,7 @@ export async function getOrderDetail(db: Kysely<Database>, user: SessionUser, or
     sets: live.length,
     exceptions: live.filter((c) => ["on_hold", "reprocess", "recalled"].includes(c.state)).length,
     heavySoil: order.heavy_soil === 1,
+    keepInStore: live.length > 0 && live.every((c) => c.keep_in_store === 1),
     outOfHours: order.out_of_hours === 1,
     notes: order.notes,
     collectedAt: order.collected_at,

@@ -6,6 +6,7 @@ import { applyCycleEvent } from "@/lib/cycles/store";
 import { AppError } from "@/lib/errors";
 import { bookingSchema } from "@/lib/orders/schemas";
 import { amendPickup, bookPickup, cancelPickup, getOrderDetail } from "@/lib/orders/service";
+import { requestFromStore, storedSets } from "@/lib/orders/store-requests";
 import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
 import { params, requestAs, sessionUser } from "../support/session";
 
@@ -224,5 +225,42 @@ describe("following an order", () => {
     expect(filtered.rows.every((r: { status: string }) => r.status === "cancelled")).toBe(true);
     const bad = await listOrdersRoute(await requestAs(theatres, "/api/orders?from=2026-02-30"), params({}));
     expect(bad.status).toBe(422);
+  });
+});
+
+describe("the unit's store", () => {
+  it("keeps released sets booked for the store until the clinic asks for them", async () => {
+    const staff = await sessionUser(t.db, seed.users["theatres@quillby.example"]!);
+    const { orderId } = await bookPickup(t.db, staff, booking({ setIds: [T(7), T(8)], extras: [], keepInStore: true }), NOW);
+    const cycles = (await getOrderDetail(t.db, staff, orderId)).cycles;
+    for (const event of ["receive", "wash_passed", "pack", "sterilise", "release"] as const) {
+      for (const c of cycles) await applyCycleEvent(t.db, { cycleId: c.cycleId, event, station: "receiving", userId: null, at: NOW });
+    }
+    const stored = await storedSets(t.db, staff);
+    expect(stored.map((s) => s.serial).sort()).toEqual([TS(7), TS(8)].sort());
+    // Another customer sees none of them.
+    expect(await storedSets(t.db, await sessionUser(t.db, seed.users["manager@otterwick.example"]!))).toEqual([]);
+
+    const before = () => countRows(t.db, [...TABLES]);
+    await refused(requestFromStore(t.db, staff, { siteId: site(THEATRES), cycleIds: [cycles[0]!.cycleId], neededBy: "2026-11-01T10:00", notes: null }, NOW), /in the future/);
+    // A cycle of another customer, booked by its own staff.
+    const otterwick = await sessionUser(t.db, seed.users["staff@otterwick.example"]!);
+    const odsSet = await t.db.selectFrom("sets").select("id").where("home_site_id", "=", site("Otterwick Day Surgery Centre")).where("status", "=", "in_service").limit(1).executeTakeFirstOrThrow();
+    const odsOrder = await bookPickup(t.db, otterwick, booking({ siteId: site("Otterwick Day Surgery Centre"), setIds: [odsSet.id], extras: [], keepInStore: true, neededBackBy: "2026-12-08T17:00" }), NOW);
+    const otherCycle = { id: (await getOrderDetail(t.db, otterwick, odsOrder.orderId)).cycles[0]!.cycleId };
+    const counts = await before();
+    await refused(requestFromStore(t.db, staff, { siteId: site(THEATRES), cycleIds: [otherCycle.id], neededBy: "2026-12-05T10:00", notes: null }, NOW), /not in your store/);
+    await refused(requestFromStore(t.db, staff, { siteId: site("Otterwick Day Surgery Centre"), cycleIds: [cycles[0]!.cycleId], neededBy: "2026-12-05T10:00", notes: null }, NOW), /was not found/);
+    expect(await countRows(t.db, [...TABLES])).toEqual(counts);
+
+    const request = await requestFromStore(t.db, staff, { siteId: site(THEATRES), cycleIds: [cycles[0]!.cycleId], neededBy: "2026-12-05T10:00", notes: null }, NOW);
+    expect(request.reference).toMatch(/^QMH-S\d{6}$/);
+    const order = await getOrderDetail(t.db, staff, request.orderId);
+    expect(order).toMatchObject({ kind: "store_request", status: "ready", sets: 1 });
+    expect((await storedSets(t.db, staff)).map((s) => s.serial)).toEqual([TS(8)]);
+    await refused(requestFromStore(t.db, staff, { siteId: site(THEATRES), cycleIds: [cycles[0]!.cycleId], neededBy: "2026-12-05T10:00", notes: null }, NOW), /not in the unit's store|already been asked/);
+    // Delivering it completes the request.
+    await applyCycleEvent(t.db, { cycleId: cycles[0]!.cycleId, event: "dispatch", station: "dispatch", userId: null, at: NOW });
+    expect((await getOrderDetail(t.db, staff, request.orderId)).status).toBe("out_for_delivery");
   });
 });

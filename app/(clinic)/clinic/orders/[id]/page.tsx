@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { CancelOrderButton } from "@/components/orders/cancel-order-button";
+import { AutoRefresh } from "@/components/auto-refresh";
 import { OrderDetailView } from "@/components/orders/order-detail-view";
 import { OrderStatusBadge } from "@/components/orders/order-status-badge";
 import { Button } from "@/components/ui/button";
@@ -36,6 +37,7 @@ export default async function ClinicOrderPage({ params }: { params: Promise<{ id
           </>
         }
       />
+      <AutoRefresh />
       <OrderDetailView order={order} timeZone={serverEnv().UNIT_TIME_ZONE} />
     </>
   );

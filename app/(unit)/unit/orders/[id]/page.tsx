@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { AutoRefresh } from "@/components/auto-refresh";
 import { OrderDetailView } from "@/components/orders/order-detail-view";
 import { OrderStatusBadge } from "@/components/orders/order-status-badge";
 import { PageHeader } from "@/components/ui/page-header";
@@ -15,6 +16,7 @@ export default async function UnitOrderPage({ params }: { params: Promise<{ id: 
   return (
     <>
       <PageHeader title={`${order.reference}`} description={`${order.organisationName} · ${order.siteName}`} actions={<OrderStatusBadge status={order.status} />} />
+      <AutoRefresh />
       <OrderDetailView order={order} timeZone={serverEnv().UNIT_TIME_ZONE} />
     </>
   );
