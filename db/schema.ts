@@ -315,6 +315,75 @@ export interface ProcedureUsesTable {
   used_at: string;
 }
 
+export interface JobRunsTable {
+  name: string;
+  last_period: string;
+  last_scheduled_at: string;
+  last_run_at: string;
+  last_result: Generated<string>;
+  runs: Generated<number>;
+}
+
+export type MachineKind = "washer" | "steriliser" | "heat_sealer" | "drying_cabinet" | "ultrasonic";
+
+export interface MachinesTable {
+  id: Generated<number>;
+  kind: MachineKind;
+  code: string;
+  name: string;
+  serial_number: string | null;
+  capacity_stu: number | null;
+  active: Generated<number>;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface ProgramsTable {
+  id: Generated<number>;
+  machine_id: number;
+  code: string;
+  name: string;
+  requirement: string;
+  active: Generated<number>;
+}
+
+export type WasherBatchStatus = "loading" | "running" | "passed" | "failed" | "aborted";
+
+export interface WasherBatchesTable {
+  id: Generated<number>;
+  number: string;
+  machine_id: number;
+  program_id: number;
+  status: WasherBatchStatus;
+  started_by: number | null;
+  started_at: string | null;
+  ended_at: string | null;
+  record_file_id: number | null;
+  figures: string | null;
+  reasons: string | null;
+  closed_by: number | null;
+  closed_at: string | null;
+  created_at: string;
+}
+
+export interface WasherBatchItemsTable {
+  batch_id: number;
+  cycle_id: number;
+  added_at: string;
+}
+
+export interface PackRecordsTable {
+  id: Generated<number>;
+  cycle_id: number;
+  packed_by: number | null;
+  packaging: string;
+  counts: string;
+  irregularities: Generated<string>;
+  outcome: "packed" | "held";
+  notes: string | null;
+  at: string;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   sites: SitesTable;
@@ -336,6 +405,7 @@ export interface Database {
   scan_events: ScanEventsTable;
   problems: ProblemsTable;
   procedure_uses: ProcedureUsesTable;
+  job_runs: JobRunsTable;
 }
 
 export type Organisation = Selectable<OrganisationsTable>;
