@@ -12,6 +12,10 @@ export interface OrganisationsTable {
   short_code: string;
   billing_email: string | null;
   active: Generated<number>;
+  /** VAT identifier with its country prefix, for e-invoices (migration 0032). */
+  vat_id: string | null;
+  /** ISO 3166-1 alpha-2 country of the organisation's addresses (migration 0032). */
+  country_code: Generated<string>;
   created_at: string;
   updated_at: string;
 }
@@ -382,6 +386,143 @@ export interface PackRecordsTable {
   outcome: "packed" | "held";
   notes: string | null;
   at: string;
+  /** Why the packaging differs from the set type's, when it does (migration 0023). */
+  packaging_reason: string | null;
+  /** The pouch sizes used, e.g. "135 × 260 mm inside 190 × 330 mm" (migration 0023). */
+  pouch: string | null;
+  /** The pack or hold scan event this record belongs to (migration 0023). */
+  scan_event_id: number | null;
+}
+
+export interface PaymentCustomersTable {
+  organisation_id: number;
+  stripe_customer_id: string;
+  created_at: string;
+}
+
+export interface InvoiceRunsTable {
+  id: Generated<number>;
+  period: string;
+  period_start: string;
+  period_end: string;
+  status: "draft" | "approved" | "issuing" | "issued";
+  created_by: number | null;
+  approved_by: number | null;
+  created_at: string;
+  approved_at: string | null;
+  issued_at: string | null;
+}
+
+export type InvoiceStatus = "draft" | "open" | "paid" | "void" | "uncollectible";
+
+export interface InvoicesTable {
+  id: Generated<number>;
+  run_id: number | null;
+  organisation_id: number;
+  contract_id: number | null;
+  number: string;
+  currency: string;
+  period_start: string;
+  period_end: string;
+  issue_date: string | null;
+  due_date: string | null;
+  status: InvoiceStatus;
+  line_total_minor: number;
+  tax_exclusive_minor: number;
+  vat_minor: number;
+  total_minor: number;
+  amount_paid_minor: Generated<number>;
+  amount_credited_minor: Generated<number>;
+  amount_due_minor: number;
+  vat_breakdown: string;
+  stripe_invoice_id: string | null;
+  stripe_number: string | null;
+  hosted_invoice_url: string | null;
+  last_payment_error: string | null;
+  paid_at: string | null;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface InvoiceLinesTable {
+  id: Generated<number>;
+  invoice_id: number;
+  position: number;
+  kind: string;
+  item_code: string;
+  description: string;
+  note: string | null;
+  quantity: number;
+  unit_price_minor: number;
+  net_minor: number;
+  vat_category: string;
+  vat_rate_bp: number;
+  cycle_ids: Generated<string>;
+  stripe_invoice_item_id: string | null;
+}
+
+export interface PricedCyclesTable {
+  cycle_id: number;
+  invoice_id: number;
+  fee_minor: number;
+  late: number;
+  priced_at: string;
+}
+
+export interface PaymentsTable {
+  id: Generated<number>;
+  invoice_id: number;
+  stripe_payment_id: string;
+  amount_minor: number;
+  currency: string;
+  status: string;
+  paid_at: string | null;
+  created_at: string;
+}
+
+export interface WebhookEventsTable {
+  id: string;
+  type: string;
+  received_at: string;
+  processed_at: string | null;
+}
+
+export interface CreditNotesTable {
+  id: Generated<number>;
+  invoice_id: number;
+  number: string;
+  reason: string;
+  net_minor: number;
+  vat_minor: number;
+  total_minor: number;
+  lines: string;
+  stripe_credit_note_id: string | null;
+  /** How it was settled (migration 0032): reduced the amount due, refunded, or outside the payment service. */
+  settlement: "amount_due" | "refund" | "out_of_band" | null;
+  created_by: number | null;
+  created_at: string;
+}
+
+export interface ReminderRulesTable {
+  id: Generated<number>;
+  days_after_due: number;
+  created_at: string;
+}
+
+export type OrderNoticeKind = "unexpected_set" | "missing_set";
+
+/** What the receiving station tells a clinic: a set that came unbooked, or a booked set that did not come. */
+export interface OrderNoticesTable {
+  id: Generated<number>;
+  order_id: number | null;
+  organisation_id: number;
+  site_id: number;
+  set_id: number;
+  cycle_id: number;
+  kind: OrderNoticeKind;
+  message: string;
+  created_at: string;
+  created_by: number | null;
 }
 
 export interface Database {
@@ -406,6 +547,21 @@ export interface Database {
   problems: ProblemsTable;
   procedure_uses: ProcedureUsesTable;
   job_runs: JobRunsTable;
+  machines: MachinesTable;
+  programs: ProgramsTable;
+  washer_batches: WasherBatchesTable;
+  washer_batch_items: WasherBatchItemsTable;
+  pack_records: PackRecordsTable;
+  payment_customers: PaymentCustomersTable;
+  invoice_runs: InvoiceRunsTable;
+  invoices: InvoicesTable;
+  invoice_lines: InvoiceLinesTable;
+  priced_cycles: PricedCyclesTable;
+  payments: PaymentsTable;
+  webhook_events: WebhookEventsTable;
+  credit_notes: CreditNotesTable;
+  reminder_rules: ReminderRulesTable;
+  order_notices: OrderNoticesTable;
 }
 
 export type Organisation = Selectable<OrganisationsTable>;

@@ -1,7 +1,7 @@
 "use client";
 
 import * as DialogPrimitive from "@radix-ui/react-dialog";
-import { Archive, Barcode, BookOpen, Building2, FileText, Home, LogOut, MapPin, Menu, Truck, Users, X } from "lucide-react";
+import { Archive, Barcode, BookOpen, Building2, Clock, Cog, FileText, Gauge, Home, LogOut, MapPin, Menu, MessageSquareWarning, Receipt, ScanLine, Truck, Users, X } from "lucide-react";
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { signOut } from "next-auth/react";
@@ -20,6 +20,12 @@ const ICONS: Record<NavIcon, typeof Home> = {
   barcode: Barcode,
   "file-text": FileText,
   archive: Archive,
+  gauge: Gauge,
+  scan: ScanLine,
+  cog: Cog,
+  receipt: Receipt,
+  alert: MessageSquareWarning,
+  clock: Clock,
 };
 
 export interface ShellUser {

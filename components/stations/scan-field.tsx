@@ -47,11 +47,11 @@ export function ScanField({
         autoCapitalize="off"
         spellCheck={false}
         placeholder={placeholder}
-        className="h-16 flex-1 rounded-xl border-2 border-lagoon-600 bg-surface px-5 text-lg text-ink placeholder:text-muted focus:outline-none focus:ring-4 focus:ring-lagoon-200"
+        className="h-16 min-w-0 flex-1 rounded-xl border-2 border-lagoon-600 bg-surface px-5 text-lg text-ink placeholder:text-muted focus:outline-none focus:ring-4 focus:ring-lagoon-200"
       />
-      <Button type="submit" size="lg" className="h-16 px-8" disabled={busy}>
+      <Button type="submit" size="lg" className="h-16 shrink-0 px-5 sm:px-8" disabled={busy}>
         <ScanLine className="h-6 w-6" aria-hidden="true" />
-        <span>{busy ? "Reading…" : label}</span>
+        <span className="sr-only sm:not-sr-only">{busy ? "Reading…" : label}</span>
       </Button>
     </form>
   );

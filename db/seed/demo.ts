@@ -6,6 +6,15 @@ import { DEMO_PASSWORD, DEMO_PEOPLE } from "./people";
 import { seedContracts } from "./contracts";
 import { seedCatalogue } from "./catalogue";
 import { seedSets } from "./sets";
+import { type HistorySeed, seedHistory } from "./history";
+import { seedProblems } from "./problems";
+import { seedMachines } from "./machines";
+import { seedBatches } from "./batches";
+import { seedReceiving } from "./receiving";
+import { seedProcedureUses } from "./procedures";
+import { type InvoiceSeed, seedInvoices } from "./invoices";
+import { seedPayments } from "./payments";
+import { seedPackRecords } from "./packing";
 
 // Writes the demo scenario into an empty, migrated database, in one transaction.
 
@@ -19,6 +28,13 @@ export interface SeedResult {
   setTypes?: Record<string, Record<string, number>>;
   /** Set ids by serial. */
   sets?: Record<string, number>;
+  /** The 90 days of ordering history: order ids by reference, and the late orders. */
+  history?: HistorySeed;
+  /** Machine ids by code, and program ids by "<machine code>/<program code>". */
+  machines?: Record<string, number>;
+  programs?: Record<string, number>;
+  /** The two months' invoices the demo has issued: ids by our number, run ids by month. */
+  invoices?: InvoiceSeed;
 }
 
 export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<SeedResult> {
@@ -89,6 +105,15 @@ export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<
     await seedCatalogue(trx, result, now);
     result.sets = await seedSets(trx, result, now);
     await seedContracts(trx, result, now);
+    result.history = await seedHistory(trx, result, now);
+    await seedProblems(trx, result, now);
+    Object.assign(result, await seedMachines(trx, result, now));
+    await seedBatches(trx, result, now);
+    await seedReceiving(trx, result, now);
+    await seedProcedureUses(trx, result, now);
+    result.invoices = await seedInvoices(trx, result, now);
+    await seedPayments(trx, result, now);
+    await seedPackRecords(trx, result, now);
     return result;
   });
 }

@@ -27,6 +27,14 @@ export const ACTIONS = [
   "problems.report",
   "problems.answer",
   "procedures.record",
+  "stations.operate",
+  "machines.view",
+  "machines.manage",
+  "board.view",
+  "billing.view",
+  "billing.manage",
+  "invoices.pay",
+  "mail.preferences",
 ] as const;
 
 export type Action = (typeof ACTIONS)[number];
@@ -35,7 +43,7 @@ export type Action = (typeof ACTIONS)[number];
 const everyone: Action[] = ["home.view", "sites.view", "catalogue.view", "sets.view", "files.view"];
 
 export const PERMISSIONS: Record<Role, readonly Action[]> = {
-  clinic_staff: [...everyone, "files.upload", "orders.view", "orders.book", "problems.report", "procedures.record"],
+  clinic_staff: [...everyone, "files.upload", "orders.view", "orders.book", "problems.report", "procedures.record", "mail.preferences"],
   clinic_manager: [
     ...everyone,
     "files.upload",
@@ -47,12 +55,47 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "orders.book",
     "problems.report",
     "procedures.record",
+    "billing.view",
+    "invoices.pay",
+    "mail.preferences",
   ],
-  dispatcher: [...everyone, "organisations.view", "orders.view", "problems.answer"],
+  dispatcher: [...everyone, "organisations.view", "orders.view", "problems.answer", "board.view", "machines.view"],
   driver: [...everyone, "files.upload"],
-  technician: [...everyone, "organisations.view", "labels.print", "files.upload", "orders.view", "problems.answer"],
-  quality_lead: [...everyone, "organisations.view", "audit.view", "labels.print", "files.upload", "orders.view", "problems.answer"],
-  finance: [...everyone, "organisations.view", "contracts.view", "contracts.manage", "files.upload", "orders.view"],
+  technician: [
+    ...everyone,
+    "organisations.view",
+    "labels.print",
+    "files.upload",
+    "orders.view",
+    "problems.answer",
+    "stations.operate",
+    "board.view",
+    "machines.view",
+  ],
+  quality_lead: [
+    ...everyone,
+    "organisations.view",
+    "audit.view",
+    "labels.print",
+    "files.upload",
+    "orders.view",
+    "problems.answer",
+    "stations.operate",
+    "board.view",
+    "machines.view",
+    "machines.manage",
+  ],
+  finance: [
+    ...everyone,
+    "organisations.view",
+    "contracts.view",
+    "contracts.manage",
+    "files.upload",
+    "orders.view",
+    "board.view",
+    "billing.view",
+    "billing.manage",
+  ],
   admin: [
     ...everyone,
     "users.view",
@@ -69,6 +112,10 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "files.upload",
     "orders.view",
     "problems.answer",
+    "board.view",
+    "machines.view",
+    "machines.manage",
+    "billing.view",
   ],
 };
 

@@ -1,11 +1,13 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { ExpiringCard } from "@/components/expiry/expiring-card";
 import { Stat } from "@/components/home/stat";
 import { SiteCards } from "@/components/sites/site-cards";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
 import { requirePermission } from "@/lib/auth/current-user";
 import { can } from "@/lib/auth/permissions";
+import { listExpiringSets } from "@/lib/expiry/service";
 import { weekdayKey } from "@/lib/format";
 import { teamSummary } from "@/lib/home/queries";
 import { listSites } from "@/lib/sites/queries";
@@ -16,9 +18,10 @@ export const metadata: Metadata = { title: "Overview" };
 export default async function ClinicHome() {
   const user = await requirePermission("home.view");
   const db = getDb();
-  const [sites, team] = await Promise.all([
+  const [sites, team, expiring] = await Promise.all([
     listSites(db, user),
     can(user.role, "users.view") ? teamSummary(db, user) : Promise.resolve(null),
+    listExpiringSets(db, user),
   ]);
   return (
     <>
@@ -38,6 +41,7 @@ export default async function ClinicHome() {
           </p>
         </div>
       )}
+      <ExpiringCard list={expiring} />
       <h2 className="mb-3 text-lg font-semibold">{user.role === "clinic_staff" ? "Your site" : "Your sites"}</h2>
       <SiteCards sites={sites} today={weekdayKey(new Date())} />
     </>

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { CONTENTS_CAPACITY, contentsSummary, layoutContents, moreLinesNote } from "@/lib/sets/label-layout";
+import { CONTENTS_CAPACITY, contentsSummary, LABEL_BLANK_FIELDS, labelDate, labelFieldLines, layoutContents, moreLinesNote } from "@/lib/sets/label-layout";
 
 const lines = (n: number) => Array.from({ length: n }, (_, i) => ({ name: `Instrument ${i + 1}`, quantity: (i % 3) + 1 }));
 
@@ -39,5 +39,39 @@ describe("the columns of the contents list", () => {
     expect(layoutContents(lines(30)).columns).toBe(1);
     expect(layoutContents(lines(31)).columns).toBe(2);
     expect(layoutContents(lines(200)).columns).toBe(2);
+  });
+});
+
+describe("the boxes filled from a cycle", () => {
+  const fields = {
+    cycleId: 7,
+    packedBy: "Sol Brackenbury",
+    packedAt: "2 Dec 2026 10:15",
+    packaging: "Wrapped tray",
+    load: null,
+    sterilisedOn: null,
+    useBy: "3 Jun 2027",
+    irregularity: null,
+    lineNotes: {},
+  };
+
+  it("puts the packer and the time in 'Packed by', and leaves boxes without a value blank", () => {
+    expect(labelFieldLines(fields)).toEqual({
+      "Packed by": ["Sol Brackenbury", "2 Dec 2026 10:15"],
+      Load: [],
+      "Sterilised on": [],
+      "Use by": ["3 Jun 2027"],
+    });
+    expect(Object.values(labelFieldLines(null)).every((lines) => lines.length === 0)).toBe(true);
+    // Every caption has its box, in the printed order.
+    expect(Object.keys(labelFieldLines(null))).toEqual([...LABEL_BLANK_FIELDS]);
+  });
+
+  it("prints a local calendar date as written, without a time zone shift", () => {
+    expect(labelDate("2027-06-03")).toBe("3 Jun 2027");
+    expect(labelDate("2026-12-31")).toBe("31 Dec 2026");
+    expect(labelDate("2026-13-01")).toBeNull();
+    expect(labelDate("3 June")).toBeNull();
+    expect(labelDate(null)).toBeNull();
   });
 });

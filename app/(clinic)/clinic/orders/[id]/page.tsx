@@ -4,6 +4,8 @@ import { CancelOrderButton } from "@/components/orders/cancel-order-button";
 import { AutoRefresh } from "@/components/auto-refresh";
 import { OrderDetailView } from "@/components/orders/order-detail-view";
 import { OrderStatusBadge } from "@/components/orders/order-status-badge";
+import { OrderProblems } from "@/components/problems/order-problems";
+import { ReceivingNotices } from "@/components/stations/receiving-notices";
 import { Button } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
@@ -11,6 +13,7 @@ import { requirePermission } from "@/lib/auth/current-user";
 import { can } from "@/lib/auth/permissions";
 import { serverEnv } from "@/lib/env";
 import { orderForPage } from "@/lib/orders/pages";
+import { listOrderNotices } from "@/lib/stations/receiving";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -38,7 +41,9 @@ export default async function ClinicOrderPage({ params }: { params: Promise<{ id
         }
       />
       <AutoRefresh />
+      <ReceivingNotices notices={await listOrderNotices(getDb(), user, order.id)} timeZone={serverEnv().UNIT_TIME_ZONE} />
       <OrderDetailView order={order} timeZone={serverEnv().UNIT_TIME_ZONE} />
+      <OrderProblems user={user} order={order} timeZone={serverEnv().UNIT_TIME_ZONE} />
     </>
   );
 }

@@ -1,0 +1,34 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { WashingStation } from "@/components/washing/washing-station";
+import { PageHeader } from "@/components/ui/page-header";
+import { getDb } from "@/db";
+import { requirePermission } from "@/lib/auth/current-user";
+import { listWashersForStation } from "@/lib/washing/service";
+
+export const metadata: Metadata = { title: "Washing" };
+
+// The washing station: load a washer-disinfector batch, start it, close it with its record.
+export default async function WashingPage() {
+  await requirePermission("stations.operate");
+  const washers = await listWashersForStation(getDb());
+  return (
+    <>
+      <PageHeader
+        title="Washing"
+        description="Choose the washer, scan every set into its batch, start it, and close it with the washer's time and temperature record."
+        actions={
+          <div className="flex gap-4">
+            <Link href="/unit/batches" className="text-sm font-medium text-lagoon-700 underline">
+              Washer batches
+            </Link>
+            <Link href="/unit/stations" className="text-sm font-medium text-lagoon-700 underline">
+              Other stations
+            </Link>
+          </div>
+        }
+      />
+      <WashingStation initialWashers={washers} />
+    </>
+  );
+}

@@ -1,0 +1,306 @@
+import "server-only";
+import type { Kysely, Transaction } from "kysely";
+import type { Database, MachineKind } from "@/db/schema";
+import { recordAudit } from "@/lib/audit/log";
+import { assertCan } from "@/lib/auth/permissions";
+import type { SessionUser } from "@/lib/auth/session-user";
+import { AppError, notFound } from "@/lib/errors";
+import {
+  describeRequirement,
+  MACHINE_KIND_LABELS,
+  parseRequirement,
+  type ProgramRequirement,
+  requirementMismatch,
+} from "./requirements";
+import type { MachineFields, ProgramFields, UpdateProgramFields } from "./schemas";
+
+// The unit's machines and their programs: reading them for the pages and stations, and the
+// administrator's and quality lead's changes, each in one transaction with its audit entry.
+// Machines belong to the unit itself, so there is no customer scope: only unit roles hold
+// machines.view.
+
+type Db = Kysely<Database> | Transaction<Database>;
+
+export interface ProgramView {
+  id: number;
+  machineId: number;
+  code: string;
+  name: string;
+  active: boolean;
+  requirement: ProgramRequirement | null;
+  requirementText: string;
+}
+
+export interface MachineListRow {
+  id: number;
+  kind: MachineKind;
+  kindLabel: string;
+  code: string;
+  name: string;
+  serialNumber: string | null;
+  capacityStu: number | null;
+  active: boolean;
+  programCount: number;
+  /** The washer's batch that is loading or running, if any. */
+  openBatch: { id: number; number: string; status: "loading" | "running" } | null;
+}
+
+export interface MachineDetail extends MachineListRow {
+  programs: ProgramView[];
+  createdAt: string;
+  updatedAt: string;
+}
+
+function toProgramView(p: { id: number; machine_id: number; code: string; name: string; active: number; requirement: string }): ProgramView {
+  const requirement = parseRequirement(p.requirement);
+  return {
+    id: p.id,
+    machineId: p.machine_id,
+    code: p.code,
+    name: p.name,
+    active: p.active === 1,
+    requirement,
+    requirementText: describeRequirement(requirement),
+  };
+}
+
+/** Every machine, by kind and code, with its program count and open washer batch. */
+export async function listMachines(db: Db, filter: { kind?: MachineKind; activeOnly?: boolean } = {}): Promise<MachineListRow[]> {
+  let query = db
+    .selectFrom("machines")
+    .select((eb) => [
+      "machines.id",
+      "machines.kind",
+      "machines.code",
+      "machines.name",
+      "machines.serial_number",
+      "machines.capacity_stu",
+      "machines.active",
+      eb.selectFrom("programs").whereRef("programs.machine_id", "=", "machines.id").select(eb.fn.countAll<number>().as("n")).as("program_count"),
+    ])
+    .orderBy("machines.kind")
+    .orderBy("machines.code");
+  if (filter.kind) query = query.where("machines.kind", "=", filter.kind);
+  if (filter.activeOnly) query = query.where("machines.active", "=", 1);
+  const rows = await query.execute();
+  const open = await db
+    .selectFrom("washer_batches")
+    .select(["id", "number", "status", "machine_id"])
+    .where("status", "in", ["loading", "running"])
+    .execute();
+  return rows.map((r) => {
+    const batch = open.find((b) => b.machine_id === r.id);
+    return {
+      id: r.id,
+      kind: r.kind,
+      kindLabel: MACHINE_KIND_LABELS[r.kind],
+      code: r.code,
+      name: r.name,
+      serialNumber: r.serial_number,
+      capacityStu: r.capacity_stu,
+      active: r.active === 1,
+      programCount: Number(r.program_count ?? 0),
+      openBatch: batch ? { id: batch.id, number: batch.number, status: batch.status as "loading" | "running" } : null,
+    };
+  });
+}
+
+/** One machine with its programs, or 404. */
+export async function getMachine(db: Db, id: number): Promise<MachineDetail> {
+  const row = await db.selectFrom("machines").selectAll().where("id", "=", id).executeTakeFirst();
+  if (!row) throw notFound("That machine");
+  const programs = await db.selectFrom("programs").selectAll().where("machine_id", "=", id).orderBy("code").execute();
+  const open = await db
+    .selectFrom("washer_batches")
+    .select(["id", "number", "status"])
+    .where("machine_id", "=", id)
+    .where("status", "in", ["loading", "running"])
+    .executeTakeFirst();
+  return {
+    id: row.id,
+    kind: row.kind,
+    kindLabel: MACHINE_KIND_LABELS[row.kind],
+    code: row.code,
+    name: row.name,
+    serialNumber: row.serial_number,
+    capacityStu: row.capacity_stu,
+    active: row.active === 1,
+    programCount: programs.length,
+    openBatch: open ? { id: open.id, number: open.number, status: open.status as "loading" | "running" } : null,
+    programs: programs.map(toProgramView),
+    createdAt: row.created_at,
+    updatedAt: row.updated_at,
+  };
+}
+
+/** One program with its machine's kind, or 404. */
+export async function getProgram(db: Db, id: number): Promise<ProgramView & { machineKind: MachineKind }> {
+  const row = await db
+    .selectFrom("programs")
+    .innerJoin("machines", "machines.id", "programs.machine_id")
+    .selectAll("programs")
+    .select("machines.kind as machine_kind")
+    .where("programs.id", "=", id)
+    .executeTakeFirst();
+  if (!row) throw notFound("That program");
+  return { ...toProgramView(row), machineKind: row.machine_kind };
+}
+
+async function assertCodeFree(db: Db, code: string, exceptId?: number): Promise<void> {
+  let query = db.selectFrom("machines").select(["id", "name"]).where("code", "=", code);
+  if (exceptId) query = query.where("id", "!=", exceptId);
+  const clash = await query.executeTakeFirst();
+  if (clash) {
+    throw new AppError("conflict", `The code ${code} is already used by ${clash.name}; every machine needs its own code.`, {
+      code: ["Already used by another machine."],
+    });
+  }
+}
+
+/** Adds a machine. */
+export async function createMachine(db: Kysely<Database>, user: SessionUser, input: MachineFields, now = new Date()): Promise<{ id: number }> {
+  assertCan(user, "machines.manage");
+  return db.transaction().execute(async (trx) => {
+    await assertCodeFree(trx, input.code);
+    const iso = now.toISOString();
+    const { id } = await trx
+      .insertInto("machines")
+      .values({
+        kind: input.kind,
+        code: input.code,
+        name: input.name,
+        serial_number: input.serialNumber,
+        capacity_stu: input.capacityStu,
+        active: input.active ? 1 : 0,
+        created_at: iso,
+        updated_at: iso,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    await recordAudit(trx, { actorUserId: user.id, action: "machine.created", entity: "machine", entityId: id, details: { ...input } }, now);
+    return { id };
+  });
+}
+
+/** Changes a machine. Its kind is fixed once it has programs; a washer with an open batch stays active. */
+export async function updateMachine(
+  db: Kysely<Database>,
+  user: SessionUser,
+  input: MachineFields & { id: number },
+  now = new Date(),
+): Promise<void> {
+  assertCan(user, "machines.manage");
+  await db.transaction().execute(async (trx) => {
+    const before = await getMachine(trx, input.id);
+    await assertCodeFree(trx, input.code, input.id);
+    if (before.kind !== input.kind && before.programCount > 0) {
+      throw new AppError("validation", `${before.code} has programs for a ${before.kindLabel.toLowerCase()}, so its kind cannot change.`, {
+        kind: ["A machine with programs keeps its kind; add a new machine instead."],
+      });
+    }
+    if (before.openBatch && (!input.active || input.code !== before.code)) {
+      throw new AppError(
+        "conflict",
+        `Batch ${before.openBatch.number} is ${before.openBatch.status} on ${before.code}: close or abort it before switching the washer off or changing its code.`,
+      );
+    }
+    await trx
+      .updateTable("machines")
+      .set({
+        kind: input.kind,
+        code: input.code,
+        name: input.name,
+        serial_number: input.serialNumber,
+        capacity_stu: input.capacityStu,
+        active: input.active ? 1 : 0,
+        updated_at: now.toISOString(),
+      })
+      .where("id", "=", input.id)
+      .execute();
+    const { programs: _programs, openBatch: _open, ...was } = before;
+    await recordAudit(
+      trx,
+      { actorUserId: user.id, action: "machine.updated", entity: "machine", entityId: input.id, details: { before: was, after: input } },
+      now,
+    );
+  });
+}
+
+async function assertProgramCodeFree(db: Db, machineId: number, code: string, exceptId?: number): Promise<void> {
+  let query = db.selectFrom("programs").select("name").where("machine_id", "=", machineId).where("code", "=", code);
+  if (exceptId) query = query.where("id", "!=", exceptId);
+  const clash = await query.executeTakeFirst();
+  if (clash) {
+    throw new AppError("conflict", `This machine already has a program ${code} (${clash.name}).`, { code: ["Already used on this machine."] });
+  }
+}
+
+function assertFits(kind: MachineKind, requirement: ProgramRequirement): void {
+  const mismatch = requirementMismatch(kind, requirement);
+  if (mismatch) throw new AppError("validation", mismatch, { requirementKind: [mismatch] });
+}
+
+/** Adds a program to a machine. */
+export async function createProgram(db: Kysely<Database>, user: SessionUser, input: ProgramFields, now = new Date()): Promise<{ id: number }> {
+  assertCan(user, "machines.manage");
+  return db.transaction().execute(async (trx) => {
+    const machine = await getMachine(trx, input.machineId);
+    assertFits(machine.kind, input.requirement);
+    await assertProgramCodeFree(trx, machine.id, input.code);
+    const { id } = await trx
+      .insertInto("programs")
+      .values({
+        machine_id: machine.id,
+        code: input.code,
+        name: input.name,
+        requirement: JSON.stringify(input.requirement),
+        active: input.active ? 1 : 0,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    await recordAudit(
+      trx,
+      { actorUserId: user.id, action: "program.created", entity: "program", entityId: id, details: { machine: machine.code, ...input } },
+      now,
+    );
+    return { id };
+  });
+}
+
+/** Changes a program. Its requirement is fixed while a batch that runs it is open. */
+export async function updateProgram(db: Kysely<Database>, user: SessionUser, input: UpdateProgramFields, now = new Date()): Promise<void> {
+  assertCan(user, "machines.manage");
+  await db.transaction().execute(async (trx) => {
+    const before = await getProgram(trx, input.id);
+    assertFits(before.machineKind, input.requirement);
+    await assertProgramCodeFree(trx, before.machineId, input.code, input.id);
+    const open = await trx
+      .selectFrom("washer_batches")
+      .select("number")
+      .where("program_id", "=", input.id)
+      .where("status", "in", ["loading", "running"])
+      .executeTakeFirst();
+    if (open && (JSON.stringify(before.requirement) !== JSON.stringify(input.requirement) || !input.active)) {
+      throw new AppError(
+        "conflict",
+        `Batch ${open.number} runs this program: close or abort it before changing the requirement or switching the program off.`,
+      );
+    }
+    await trx
+      .updateTable("programs")
+      .set({ code: input.code, name: input.name, requirement: JSON.stringify(input.requirement), active: input.active ? 1 : 0 })
+      .where("id", "=", input.id)
+      .execute();
+    await recordAudit(
+      trx,
+      {
+        actorUserId: user.id,
+        action: "program.updated",
+        entity: "program",
+        entityId: input.id,
+        details: { before: { code: before.code, name: before.name, active: before.active, requirement: before.requirement }, after: input },
+      },
+      now,
+    );
+  });
+}
