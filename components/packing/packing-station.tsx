@@ -17,7 +17,7 @@ import { checkCounts, irregularityText } from "@/lib/packing/checklist";
 import type { PackDecision, PackRequest } from "@/lib/packing/schemas";
 import type { PackingSetView, PackResult } from "@/lib/packing/service";
 import { ContentsChecklist, type LineEntry } from "./contents-checklist";
-import { newEventId, postJson } from "./post";
+import { newClientEventId, postJson } from "@/components/stations/post";
 import { type PouchChoice, PouchHelper } from "./pouch-helper";
 
 // The packing station: scan a washed set, count its contents against the list, choose the
@@ -205,7 +205,7 @@ function PackForm({ view, onDone }: { view: PackingSetView; onDone: (result: Pac
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<{ message: string; fields: FieldErrors } | null>(null);
   // One id per packing of this scan: a retried request is recorded once.
-  const [clientEventId] = useState(newEventId);
+  const [clientEventId] = useState(newClientEventId);
 
   const counts = items.map((item) => ({
     position: item.position,

@@ -10,7 +10,7 @@ import { Card, CardBody, CardHeader } from "@/components/ui/card";
 import { cn } from "@/lib/cn";
 import type { ManualWashStep } from "@/lib/washing/checklist";
 import type { ManualWashSet } from "@/lib/washing/manual";
-import { newClientEventId, postJson } from "./post";
+import { newClientEventId, postJson } from "@/components/stations/post";
 import { Refusal } from "./refusal";
 
 // The manual-washing station: scan a set waiting to be washed, confirm each step of washing it

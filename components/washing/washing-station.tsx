@@ -19,7 +19,7 @@ import type { BatchView, ScannedSet, WasherOption } from "@/lib/washing/service"
 import { AdvisoryNote } from "./advisory-note";
 import { BatchResult } from "./batch-result";
 import { BatchStatusBadge } from "./batch-status-badge";
-import { newClientEventId, postJson } from "./post";
+import { newClientEventId, postJson } from "@/components/stations/post";
 import { RecordForm } from "./record-form";
 import { Refusal } from "./refusal";
 

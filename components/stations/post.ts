@@ -1,12 +1,12 @@
 import type { ErrorBody, FieldErrors } from "@/lib/errors";
 
-// Talking to the packing routes from the station: JSON in, JSON out, the server's message and
-// field errors kept for the screen; a dropped connection is tried again with the same body, and
-// so with the same clientEventId, which the server records once.
+// Talking to the station routes from a station screen: JSON in and out, the server's message and
+// field errors kept for the screen. A dropped connection is tried again with the same body — and
+// so the same clientEventId, which the server records once.
 
 export type Posted<T> = { ok: true; data: T } | { ok: false; status: number; message: string; fields: FieldErrors };
 
-export async function postJson<T>(url: string, body: unknown): Promise<Posted<T>> {
+export async function postJson<T>(url: string, body: unknown = {}): Promise<Posted<T>> {
   for (let attempt = 1; ; attempt++) {
     try {
       const res = await fetch(url, {
@@ -31,8 +31,8 @@ export async function postJson<T>(url: string, body: unknown): Promise<Posted<T>
   }
 }
 
-/** A v4 UUID for one packing, also where crypto.randomUUID is missing (a page served over plain http). */
-export function newEventId(): string {
+/** A v4 UUID for one request, also where crypto.randomUUID is missing (a page served over plain http). */
+export function newClientEventId(): string {
   if (typeof crypto.randomUUID === "function") return crypto.randomUUID();
   const bytes = crypto.getRandomValues(new Uint8Array(16));
   bytes[6] = (bytes[6]! & 0x0f) | 0x40;
