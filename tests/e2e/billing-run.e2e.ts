@@ -117,7 +117,7 @@ describe("an invoice run", () => {
         await signIn(phone.page, "finance@larkmoor.example", DEMO_PASSWORD);
         await expectPath(phone.page, "/unit");
         await phone.page.goto(runPath);
-        await expect.poll(() => phone.page.getByTestId("stripe-number").count(), { timeout: 20_000 }).toBe(1);
+        await expect.poll(() => phone.page.getByTestId(`run-invoice-LSS-${lastMonth}-PVC-2`).getByTestId("stripe-number").count(), { timeout: 20_000 }).toBe(1);
         await screenshot(phone.page, "billing-run-phone");
       } finally {
         await phone.context.close();
