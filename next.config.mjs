@@ -26,6 +26,8 @@ const securityHeaders = [
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // A second build folder lets two checkouts' end-to-end runs build side by side on one machine.
+  distDir: process.env.NEXT_DIST_DIR || ".next",
   serverExternalPackages: ["better-sqlite3", "pdfkit", "@node-rs/argon2", "bwip-js"],
   poweredByHeader: false,
   // The type check runs as its own step (`npm run typecheck`) in CI, over the whole project.

@@ -20,7 +20,7 @@ let stack: Stack | undefined;
 let dataDir: string | undefined;
 
 export default async function setup(project: TestProject) {
-  if (!fs.existsSync(path.join(".next", "BUILD_ID"))) {
+  if (!fs.existsSync(path.join(process.env.NEXT_DIST_DIR || ".next", "BUILD_ID"))) {
     console.log("No production build found: running `next build` first.");
     await runToEnd(path.join("node_modules", ".bin", "next"), ["build"], { NEXT_TELEMETRY_DISABLED: "1" });
   }
