@@ -1,7 +1,7 @@
 import "server-only";
 import type { Kysely } from "kysely";
 import { serverEnv } from "@/lib/env";
-import { openDatabase } from "./connection";
+import { openConfigured } from "./connection";
 import type { Database } from "./schema";
 
 export type { Database } from "./schema";
@@ -9,9 +9,9 @@ export type DB = Kysely<Database>;
 
 const globalForDb = globalThis as unknown as { steamlaneDb?: Kysely<Database> };
 
-/** The one Kysely instance of this process, opened on first use. */
+/** The one Kysely instance of this process, opened on first use: PostgreSQL when DATABASE_URL is set, else SQLite. */
 export function getDb(): Kysely<Database> {
-  if (!globalForDb.steamlaneDb) globalForDb.steamlaneDb = openDatabase(serverEnv().databasePath);
+  if (!globalForDb.steamlaneDb) globalForDb.steamlaneDb = openConfigured(serverEnv());
   return globalForDb.steamlaneDb;
 }
 

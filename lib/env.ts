@@ -7,6 +7,11 @@ const serverEnvSchema = z.object({
   /** Folder for the SQLite file and uploads; git-ignored. */
   STEAMLANE_DATA_DIR: z.string().min(1).default("data"),
   DATABASE_PATH: z.string().min(1).optional(),
+  /** A postgres:// address selects PostgreSQL instead of the SQLite file. */
+  DATABASE_URL: z
+    .string()
+    .regex(/^postgres(ql)?:\/\/\S+$/, "must be a postgres:// or postgresql:// address")
+    .optional(),
   UPLOADS_DIR: z.string().min(1).optional(),
   /** Public address of the app, used in e-mailed links. */
   APP_URL: z.string().url().default("http://localhost:3000"),

@@ -1,4 +1,5 @@
 import { type Kysely, sql } from "kysely";
+import { isPostgres, makeAppendOnly } from "./_portable";
 
 // Organisations (the unit and its customers), their sites, users, invitations,
 // sign-in failures, the append-only audit log and the mail outbox.
@@ -101,10 +102,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .execute();
   await db.schema.createIndex("audit_log_entity_idx").on("audit_log").columns(["entity", "entity_id"]).execute();
   // Append-only: the database itself refuses to change or remove an entry.
-  await sql`create trigger audit_log_no_update before update on audit_log
-    begin select raise(abort, 'audit_log is append-only'); end`.execute(db);
-  await sql`create trigger audit_log_no_delete before delete on audit_log
-    begin select raise(abort, 'audit_log is append-only'); end`.execute(db);
+  await makeAppendOnly(db, "audit_log");
 
   await db.schema
     .createTable("outbox")
@@ -134,4 +132,5 @@ export async function down(db: Kysely<any>): Promise<void> {
   for (const table of ["outbox", "audit_log", "sign_in_failures", "invitations", "users", "sites", "organisations"]) {
     await db.schema.dropTable(table).execute();
   }
+  if (isPostgres(db)) await sql`drop function if exists refuse_append_only_change()`.execute(db);
 }

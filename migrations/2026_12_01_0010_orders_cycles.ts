@@ -1,4 +1,5 @@
 import { type Kysely, sql } from "kysely";
+import { makeAppendOnly } from "./_portable";
 
 // Pickup orders and store requests, the sets in them, each set's cycles through the unit with
 // their append-only scan events, problems reported by clinics, and sets used for procedures.
@@ -110,10 +111,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .execute();
   await db.schema.createIndex("scan_events_cycle_idx").on("scan_events").columns(["cycle_id", "id"]).execute();
   await db.schema.createIndex("scan_events_at_idx").on("scan_events").columns(["at"]).execute();
-  await sql`create trigger scan_events_no_update before update on scan_events
-    begin select raise(abort, 'scan_events is append-only'); end`.execute(db);
-  await sql`create trigger scan_events_no_delete before delete on scan_events
-    begin select raise(abort, 'scan_events is append-only'); end`.execute(db);
+  await makeAppendOnly(db, "scan_events");
 
   await db.schema
     .createTable("problems")

@@ -1,5 +1,6 @@
 import "server-only";
 import { type Kysely, sql } from "kysely";
+import { uniqueViolation } from "@/db/dialect";
 import type { Database } from "@/db/schema";
 import { recordAudit } from "@/lib/audit/log";
 import { isCustomerRole } from "@/lib/auth/roles";
@@ -320,7 +321,7 @@ async function uniqueAsConflict<T>(work: () => Promise<T>): Promise<T> {
   try {
     return await work();
   } catch (error) {
-    if (error instanceof Error && "code" in error && String(error.code).startsWith("SQLITE_CONSTRAINT_UNIQUE")) {
+    if (uniqueViolation(error)) {
       throw new AppError("conflict", "Another set type of this customer already has this code or name. Reload and try again.");
     }
     throw error;

@@ -28,11 +28,15 @@ export function likeContains(text: string): string {
   return `%${text.replaceAll("\\", "\\\\").replaceAll("%", "\\%").replaceAll("_", "\\_")}%`;
 }
 
-/** A WHERE term: any of the columns contains the text. */
+/**
+ * A WHERE term: any of the columns contains the text, ignoring case. Both sides are lowered so
+ * the term reads the same on SQLite (whose LIKE ignores ASCII case) and PostgreSQL (whose LIKE
+ * does not).
+ */
 export function searchTerm(columns: string[], text: string) {
   const pattern = likeContains(text);
   return sql<boolean>`(${sql.join(
-    columns.map((c) => sql`${sql.ref(c)} like ${pattern} escape '\\'`),
+    columns.map((c) => sql`lower(${sql.ref(c)}) like lower(${pattern}) escape '\\'`),
     sql` or `,
   )})`;
 }

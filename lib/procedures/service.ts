@@ -1,5 +1,6 @@
 import "server-only";
 import type { Kysely } from "kysely";
+import { uniqueViolation } from "@/db/dialect";
 import type { Database } from "@/db/schema";
 import { recordAudit } from "@/lib/audit/log";
 import { tenantScope } from "@/lib/auth/scope";
@@ -120,7 +121,7 @@ export interface RecordedUse {
 }
 
 function isUniqueViolation(error: unknown): boolean {
-  return error instanceof Error && "code" in error && (error as { code?: string }).code === "SQLITE_CONSTRAINT_UNIQUE";
+  return uniqueViolation(error) !== null;
 }
 
 /** Records that a delivered, unexpired, unused set was taken for a procedure; refuses anything else. */

@@ -1,5 +1,6 @@
 import "server-only";
 import { sql, type Transaction } from "kysely";
+import { uniqueViolation } from "@/db/dialect";
 import type { Database } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { Gs1Error } from "@/lib/labels/gs1";
@@ -16,7 +17,9 @@ export interface SetIdentifier {
  * Takes the database's write lock for this transaction before anything is read. SQLite allows
  * one writer at a time; a transaction that reads first and writes later can be overtaken by
  * another writer between the two (then its numbers would collide). Writing first makes the
- * read that follows see every committed set, and holds other writers off until we commit.
+ * read that follows see every committed set, and holds other writers off until we commit. On
+ * PostgreSQL the same update locks the organisation's row, so two batches for one customer
+ * queue behind each other the same way.
  */
 async function takeWriteLock(trx: Transaction<Database>, organisationId: number): Promise<void> {
   await sql`update organisations set updated_at = updated_at where id = ${organisationId}`.execute(trx);
@@ -64,9 +67,8 @@ export async function allocateSetIdentifiers(
   return identifiers;
 }
 
-/** True for SQLite's unique-constraint failure on the sets' serial or GIAI. */
+/** True for a unique-constraint failure on the sets' serial or GIAI (SQLite or PostgreSQL). */
 export function isSetIdentifierCollision(error: unknown): boolean {
-  if (!(error instanceof Error)) return false;
-  const code = (error as Error & { code?: unknown }).code;
-  return code === "SQLITE_CONSTRAINT_UNIQUE" && /sets\.(giai|serial|organisation_id)/.test(error.message);
+  const violation = uniqueViolation(error);
+  return violation?.table === "sets" && violation.columns.some((c) => c === "giai" || c === "serial" || c === "organisation_id");
 }

@@ -1,26 +1,72 @@
+import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import type { Kysely } from "kysely";
+import { Client } from "pg";
 import { closeDb, getDb } from "@/db";
 import type { Database } from "@/db/schema";
 import { migrateToLatest } from "@/db/migrator";
 import { resetServerEnvCache } from "@/lib/env";
 
-// A freshly migrated SQLite database for one test file, installed as the process's database so
-// that route handlers and actions under test use it.
+// A freshly migrated database for one test file, installed as the process's database so that
+// route handlers and actions under test use it: a SQLite file by default, or, with
+// TEST_DATABASE=postgres, a new database on the PostgreSQL server at TEST_PG_URL (`npm run test:pg`).
 
 export interface TestDatabase {
   db: Kysely<Database>;
+  /** The test file's own data folder (uploads; the SQLite file). */
   dir: string;
   cleanup(): Promise<void>;
 }
 
+/** The server the PostgreSQL run creates its databases on; .ci/run starts one at this address. */
+export const DEFAULT_TEST_PG_URL = "postgres://postgres@127.0.0.1:5433/postgres";
+
+/** Which database the suite runs on, from TEST_DATABASE ("sqlite", the default, or "postgres"). */
+export function testDatabaseKind(): "sqlite" | "postgres" {
+  const kind = process.env.TEST_DATABASE ?? "sqlite";
+  if (kind !== "sqlite" && kind !== "postgres") throw new Error(`TEST_DATABASE must be "sqlite" or "postgres", not "${kind}"`);
+  return kind;
+}
+
+/** Runs one statement on the server's maintenance database (CREATE / DROP DATABASE). */
+async function onServer(statement: string): Promise<void> {
+  const client = new Client({ connectionString: process.env.TEST_PG_URL ?? DEFAULT_TEST_PG_URL });
+  try {
+    await client.connect();
+  } catch (error) {
+    const reason = error instanceof Error ? error.message : String(error);
+    throw new Error(`TEST_DATABASE=postgres needs a PostgreSQL server at TEST_PG_URL (${client.host}:${client.port}): ${reason}`);
+  }
+  try {
+    await client.query(statement);
+  } finally {
+    await client.end();
+  }
+}
+
+/**
+ * Creates an empty PostgreSQL database for a test and returns its address. Its text is ordered
+ * by code point (locale C.UTF-8), the way SQLite compares text.
+ */
+async function createPostgresDatabase(): Promise<{ url: string; name: string }> {
+  const name = `steamlane_t_${randomBytes(6).toString("hex")}`;
+  await onServer(`create database ${name} template template0 encoding 'UTF8' locale 'C.UTF-8'`);
+  const url = new URL(process.env.TEST_PG_URL ?? DEFAULT_TEST_PG_URL);
+  url.pathname = `/${name}`;
+  return { url: url.toString(), name };
+}
+
 export async function useFreshDatabase(): Promise<TestDatabase> {
+  const kind = testDatabaseKind();
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "steamlane-test-"));
   process.env.STEAMLANE_DATA_DIR = dir;
   delete process.env.DATABASE_PATH;
+  delete process.env.DATABASE_URL;
   process.env.NEXTAUTH_SECRET ??= "test-secret-of-sufficient-length-0123456789";
+  const postgres = kind === "postgres" ? await createPostgresDatabase() : null;
+  if (postgres) process.env.DATABASE_URL = postgres.url;
   resetServerEnvCache();
   await closeDb();
   const db = getDb();
@@ -30,6 +76,11 @@ export async function useFreshDatabase(): Promise<TestDatabase> {
     dir,
     async cleanup() {
       await closeDb();
+      if (postgres) {
+        await onServer(`drop database if exists ${postgres.name} with (force)`);
+        delete process.env.DATABASE_URL;
+        resetServerEnvCache();
+      }
       fs.rmSync(dir, { recursive: true, force: true });
     },
   };
