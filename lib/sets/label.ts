@@ -52,14 +52,12 @@ export const labelPrintQuerySchema = labelQuerySchema.extend({
     .optional(),
 });
 
-/**
- * Finds the printed number of a steriliser load from the load id its sterilise scan event
- * carries. Steriliser loads have no table yet, so the default knows none and the "Load" box stays
- * blank; the sterilising station replaces `defaultLoadNumber` with a lookup in its table (or
- * passes its own to getSetLabel).
- */
+/** Finds the printed number of a steriliser load from the load id its sterilise scan event carries. */
 export type LoadNumberLookup = (db: Kysely<Database>, loadId: number) => Promise<string | null>;
-export const defaultLoadNumber: LoadNumberLookup = async () => null;
+export const defaultLoadNumber: LoadNumberLookup = async (db, loadId) => {
+  const row = await db.selectFrom("steriliser_loads").select("number").where("id", "=", loadId).executeTakeFirst();
+  return row?.number ?? null;
+};
 
 export interface SetLabelOptions {
   /** One of the set's cycles; without it the open cycle, else the latest. */
@@ -103,6 +101,18 @@ async function labelCycleFields(db: Kysely<Database>, cycle: CycleRow, loadNumbe
       .orderBy("id", "desc")
       .executeTakeFirst();
     if (event?.load_id) load = await loadNumber(db, event.load_id);
+    // Loads recorded after the fact (the demo history) link their cycles through load_items only.
+    if (!load) {
+      const item = await db
+        .selectFrom("load_items as i")
+        .innerJoin("steriliser_loads as l", "l.id", "i.load_id")
+        .select("l.number")
+        .where("i.cycle_id", "=", cycle.id)
+        .where("l.status", "in", ["awaiting_release", "released", "failed"])
+        .orderBy("i.added_at", "desc")
+        .executeTakeFirst();
+      load = item?.number ?? null;
+    }
   }
   const irregularities = record?.irregularities ?? [];
   const lineNotes: Record<string, string> = {};

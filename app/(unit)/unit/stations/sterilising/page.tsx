@@ -1,0 +1,37 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { SterilisingStation } from "@/components/sterilising/sterilising-station";
+import { PageHeader } from "@/components/ui/page-header";
+import { getDb } from "@/db";
+import { requirePermission } from "@/lib/auth/current-user";
+import { listSterilisersForStation } from "@/lib/sterilising/loads";
+
+export const metadata: Metadata = { title: "Sterilising" };
+
+// The sterilising station: load a steriliser, start it after the day's air-removal test, finish it with its record.
+export default async function SterilisingPage() {
+  await requirePermission("loads.operate");
+  const sterilisers = await listSterilisersForStation(getDb());
+  return (
+    <>
+      <PageHeader
+        title="Sterilising"
+        description="Choose the steriliser, scan every packed set into its load, start it, and finish it with the steriliser's record and the indicator results."
+        actions={
+          <div className="flex gap-4">
+            <Link href="/unit/steriliser-tests" className="text-sm font-medium text-lagoon-700 underline">
+              Daily tests
+            </Link>
+            <Link href="/unit/loads" className="text-sm font-medium text-lagoon-700 underline">
+              Steriliser loads
+            </Link>
+            <Link href="/unit/stations" className="text-sm font-medium text-lagoon-700 underline">
+              Other stations
+            </Link>
+          </div>
+        }
+      />
+      <SterilisingStation initialSterilisers={sterilisers} />
+    </>
+  );
+}
