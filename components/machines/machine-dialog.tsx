@@ -23,6 +23,7 @@ export interface MachineFormSubject {
   name: string;
   serialNumber: string | null;
   capacityStu: number | null;
+  chamber?: { widthMm: number; heightMm: number; depthMm: number } | null;
   active: boolean;
   programCount: number;
 }
@@ -35,6 +36,9 @@ function defaults(machine?: MachineFormSubject): MachineInput {
     serialNumber: machine?.serialNumber ?? "",
     capacityStu: machine?.capacityStu === null || machine?.capacityStu === undefined ? "" : String(machine.capacityStu),
     active: machine?.active ?? true,
+    chamberWidthMm: machine?.chamber ? String(machine.chamber.widthMm) : "",
+    chamberHeightMm: machine?.chamber ? String(machine.chamber.heightMm) : "",
+    chamberDepthMm: machine?.chamber ? String(machine.chamber.depthMm) : "",
   };
 }
 
@@ -120,6 +124,21 @@ export function MachineDialog({ trigger, machine }: { trigger: ReactNode; machin
                 <Input id="machine-capacity" inputMode="decimal" aria-invalid={!!errors.capacityStu} {...register("capacityStu")} />
               </Field>
             </div>
+            <fieldset className="space-y-2">
+              <legend className="text-sm font-medium text-ink">Inner chamber in mm (optional)</legend>
+              <div className="grid gap-4 sm:grid-cols-3">
+                <Field id="machine-chamber-width" label="Width" error={errors.chamberWidthMm?.message}>
+                  <Input id="machine-chamber-width" inputMode="numeric" aria-invalid={!!errors.chamberWidthMm} {...register("chamberWidthMm")} />
+                </Field>
+                <Field id="machine-chamber-height" label="Height" error={errors.chamberHeightMm?.message}>
+                  <Input id="machine-chamber-height" inputMode="numeric" aria-invalid={!!errors.chamberHeightMm} {...register("chamberHeightMm")} />
+                </Field>
+                <Field id="machine-chamber-depth" label="Depth" error={errors.chamberDepthMm?.message}>
+                  <Input id="machine-chamber-depth" inputMode="numeric" aria-invalid={!!errors.chamberDepthMm} {...register("chamberDepthMm")} />
+                </Field>
+              </div>
+              <p className="text-xs text-muted">With the chamber given, an empty capacity is worked out as the whole StU modules that fit.</p>
+            </fieldset>
             <label className="flex items-center gap-3 text-sm text-ink">
               <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("active")} />
               In use (switched off machines cannot take new batches or loads)

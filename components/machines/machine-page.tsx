@@ -13,6 +13,7 @@ import type { SessionUser } from "@/lib/auth/session-user";
 import { formatBelow } from "@/lib/cycles/format";
 import { AppError } from "@/lib/errors";
 import { formatDateTime } from "@/lib/format";
+import { describeChamber, stuThatFit } from "@/lib/machines/chamber";
 import { getMachine, type MachineDetail } from "@/lib/machines/service";
 import { listBatches } from "@/lib/washing/service";
 import { MachineDialog } from "./machine-dialog";
@@ -68,6 +69,7 @@ export async function MachinePage({ user, rawId }: { user: SessionUser; rawId: s
                 name: machine.name,
                 serialNumber: machine.serialNumber,
                 capacityStu: machine.capacityStu,
+                chamber: machine.chamber,
                 active: machine.active,
                 programCount: machine.programCount,
               }}
@@ -89,6 +91,9 @@ export async function MachinePage({ user, rawId }: { user: SessionUser; rawId: s
               <Row label="Code">{machine.code}</Row>
               <Row label="Serial number">{machine.serialNumber ?? "—"}</Row>
               <Row label="Capacity">{machine.capacityStu === null ? "—" : `${machine.capacityStu} StU`}</Row>
+              <Row label="Chamber">
+                {machine.chamber ? `${describeChamber(machine.chamber)}; ${stuThatFit(machine.chamber)} whole StU fit` : "—"}
+              </Row>
               <Row label="Status">
                 <Badge tone={machine.active ? "ok" : "neutral"}>{machine.active ? "In use" : "Switched off"}</Badge>
               </Row>

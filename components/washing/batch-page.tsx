@@ -1,9 +1,10 @@
-import { Download } from "lucide-react";
+import { Download, FileText } from "lucide-react";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import type { ReactNode } from "react";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
+import { RecordChart } from "@/components/cycles/record-chart";
 import { Card, CardBody, CardHeader } from "@/components/ui/card";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
@@ -11,11 +12,11 @@ import type { SessionUser } from "@/lib/auth/session-user";
 import { AppError } from "@/lib/errors";
 import { formatDateTime } from "@/lib/format";
 import { formatDuration } from "@/lib/machines/requirements";
+import { washerChartParts } from "@/lib/washing/chart-figures";
 import { type BatchDetail, getBatchDetail } from "@/lib/washing/service";
 import { AdvisoryNote } from "./advisory-note";
 import { BatchResult } from "./batch-result";
 import { BatchStatusBadge } from "./batch-status-badge";
-import { TemperatureChart } from "./temperature-chart";
 
 async function loadOr404(user: SessionUser, rawId: string): Promise<BatchDetail> {
   if (!/^[1-9][0-9]{0,15}$/.test(rawId)) notFound();
@@ -79,13 +80,22 @@ export async function BatchPage({ user, rawId }: { user: SessionUser; rawId: str
                 </Row>
                 {batch.figures && <Row label="Record">{`${batch.figures.sampleCount} samples over ${formatDuration(batch.figures.durationSeconds)}`}</Row>}
               </dl>
-              {batch.record && (
-                <Button variant="secondary" className="mt-3" asChild>
-                  <a href={`/api/files/${batch.record.fileId}`} download>
-                    <Download className="h-4 w-4" aria-hidden="true" /> {batch.record.name}
-                  </a>
-                </Button>
-              )}
+              <div className="mt-3 flex flex-wrap gap-2">
+                {batch.record && (
+                  <Button variant="secondary" asChild>
+                    <a href={`/api/files/${batch.record.fileId}`} download>
+                      <Download className="h-4 w-4" aria-hidden="true" /> {batch.record.name}
+                    </a>
+                  </Button>
+                )}
+                {batch.status !== "loading" && (
+                  <Button variant="secondary" asChild>
+                    <a href={`/api/batches/${batch.id}/record.pdf`} download data-testid="batch-record-pdf">
+                      <FileText className="h-4 w-4" aria-hidden="true" /> Cycle record (PDF)
+                    </a>
+                  </Button>
+                )}
+              </div>
             </CardBody>
           </Card>
           <Card>
@@ -129,8 +139,8 @@ export async function BatchPage({ user, rawId }: { user: SessionUser; rawId: str
           <Card>
             <CardHeader title="Temperature curve" description="The load temperature over the record, the hold shaded." />
             <CardBody>
-              {batch.chart ? (
-                <TemperatureChart chart={batch.chart} title={`Temperature of batch ${batch.number}`} />
+              {batch.chart && batch.figures ? (
+                <RecordChart samples={batch.chart.points} title={`Batch ${batch.number}, ${batch.program.name}`} {...washerChartParts(batch.figures)} />
               ) : (
                 <p className="text-sm text-muted">{batch.chartProblem ?? "No record yet: the curve appears once the batch is closed with its record."}</p>
               )}

@@ -2,10 +2,8 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { useMemo, useState } from "react";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { useMemo } from "react";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { formatBelow } from "@/lib/cycles/format";
 import { formatDateTime } from "@/lib/format";
 import type { BatchListRow } from "@/lib/washing/service";
@@ -16,17 +14,7 @@ const STATUSES = ["loading", "running", "passed", "failed", "aborted"] as const;
 
 /** Washer batches, paged and sorted on the server, filtered by washer, status and number. */
 export function BatchesTable({ washers, initialMachineId }: { washers: { id: number; code: string; name: string }[]; initialMachineId?: number }) {
-  const [q, setQ] = useState("");
-  const [machineId, setMachineId] = useState(initialMachineId ? String(initialMachineId) : "");
-  const [status, setStatus] = useState("");
-  const table = useServerTable<BatchListRow, Record<string, string>>({
-    queryKey: "washer-batches",
-    url: "/api/batches",
-    defaultSort: { id: "created_at", desc: true },
-    filters: { q: q.trim(), machineId, status },
-    pageSize: 25,
-  });
-  const setPage = table.setPage;
+  const [filters, setFilters] = useTableFilters({ q: "", machineId: initialMachineId ? String(initialMachineId) : "", status: "" });
 
   const columns = useMemo<ColumnDef<BatchListRow, unknown>[]>(
     () => [
@@ -90,67 +78,35 @@ export function BatchesTable({ washers, initialMachineId }: { washers: { id: num
   );
 
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-[1fr_14rem_12rem]">
-        <Input
-          type="search"
-          placeholder="Search by batch number or program"
-          aria-label="Search by batch number or program"
-          value={q}
-          onChange={(e) => {
-            setQ(e.target.value);
-            setPage(1);
-          }}
-        />
-        <Select
-          aria-label="Washer"
-          value={machineId}
-          onChange={(e) => {
-            setMachineId(e.target.value);
-            setPage(1);
-          }}
-        >
-          <option value="">Every washer</option>
-          {washers.map((w) => (
-            <option key={w.id} value={w.id}>
-              {w.code} · {w.name}
-            </option>
-          ))}
-        </Select>
-        <Select
-          aria-label="Status"
-          value={status}
-          onChange={(e) => {
-            setStatus(e.target.value);
-            setPage(1);
-          }}
-        >
-          <option value="">Any status</option>
-          {STATUSES.map((s) => (
-            <option key={s} value={s}>
-              {BATCH_STATUS_LABELS[s]}
-            </option>
-          ))}
-        </Select>
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
-        caption="Washer batches"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(row) => String(row.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="washer-batches"
+      url="/api/batches"
+      filters={filters}
+      defaultSort={{ id: "created_at", desc: true }}
+      pageSize={25}
+      caption="Washer batches"
+      columns={columns}
+      getRowId={(row) => String(row.id)}
+      filterBarClassName="sm:grid-cols-[1fr_14rem_12rem]"
+      filterBar={
+        <>
+          <SearchFilter label="Search by batch number or program" value={filters.q} onChange={(q) => setFilters({ q })} />
+          <SelectFilter
+            label="Washer"
+            anyLabel="Every washer"
+            options={washers.map((w) => ({ value: w.id, label: `${w.code} · ${w.name}` }))}
+            value={filters.machineId}
+            onChange={(machineId) => setFilters({ machineId })}
+          />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={STATUSES.map((s) => ({ value: s, label: BATCH_STATUS_LABELS[s] }))}
+            value={filters.status}
+            onChange={(status) => setFilters({ status })}
+          />
+        </>
+      }
+    />
   );
 }

@@ -33,6 +33,12 @@ const optionalNumber = (message: string) =>
     z.coerce.number({ error: message }).refine(Number.isFinite, message).optional(),
   );
 
+/** One inner side of a chamber in whole millimetres; empty means not given. */
+const chamberSide = (side: string) =>
+  optionalNumber(`Enter the chamber ${side} in mm, e.g. 680.`)
+    .refine((v) => v === undefined || (Number.isInteger(v) && v >= 100 && v <= 5000), `The chamber ${side} is whole mm from 100 to 5000.`)
+    .transform((v) => v ?? null);
+
 export const machineSchema = z.object({
   kind: z.enum(MACHINE_KINDS, { error: "Choose the kind of machine." }),
   code: code("machine's code"),
@@ -47,6 +53,10 @@ export const machineSchema = z.object({
     .refine((v) => v === undefined || (v > 0 && v <= 100), "The capacity is more than 0 and at most 100 StU.")
     .transform((v) => v ?? null),
   active: z.boolean().default(true),
+  // The inner chamber in mm: all three or none; the capacity is checked against what fits.
+  chamberWidthMm: chamberSide("width"),
+  chamberHeightMm: chamberSide("height"),
+  chamberDepthMm: chamberSide("depth"),
 });
 export type MachineInput = z.input<typeof machineSchema>;
 export type MachineFields = z.output<typeof machineSchema>;

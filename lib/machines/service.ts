@@ -12,6 +12,7 @@ import {
   type ProgramRequirement,
   requirementMismatch,
 } from "./requirements";
+import { describeChamber, stuThatFit } from "./chamber";
 import type { MachineFields, ProgramFields, UpdateProgramFields } from "./schemas";
 
 // The unit's machines and their programs: reading them for the pages and stations, and the
@@ -39,6 +40,8 @@ export interface MachineListRow {
   name: string;
   serialNumber: string | null;
   capacityStu: number | null;
+  /** The inner chamber in mm, when recorded. */
+  chamber: { widthMm: number; heightMm: number; depthMm: number } | null;
   active: boolean;
   programCount: number;
   /** The washer's batch that is loading or running, if any. */
@@ -64,6 +67,37 @@ function toProgramView(p: { id: number; machine_id: number; code: string; name: 
   };
 }
 
+function chamberOf(r: { chamber_width_mm: number | null; chamber_height_mm: number | null; chamber_depth_mm: number | null }): MachineListRow["chamber"] {
+  return r.chamber_width_mm !== null && r.chamber_height_mm !== null && r.chamber_depth_mm !== null
+    ? { widthMm: r.chamber_width_mm, heightMm: r.chamber_height_mm, depthMm: r.chamber_depth_mm }
+    : null;
+}
+
+/**
+ * The chamber and capacity to store: the three sides together or none; with a chamber, the
+ * capacity is at most the StU modules that fit, and is worked out from it when left empty.
+ */
+function chamberAndCapacity(input: MachineFields): { chamber: MachineListRow["chamber"]; capacityStu: number | null } {
+  const sides = [input.chamberWidthMm, input.chamberHeightMm, input.chamberDepthMm];
+  const given = sides.filter((v) => v !== null && v !== undefined).length;
+  if (given === 0) return { chamber: null, capacityStu: input.capacityStu };
+  if (given < 3) {
+    const missing = { chamberWidthMm: "width", chamberHeightMm: "height", chamberDepthMm: "depth" } as const;
+    const fields = Object.fromEntries(
+      (Object.keys(missing) as (keyof typeof missing)[]).filter((k) => input[k] === null || input[k] === undefined).map((k) => [k, [`Enter the ${missing[k]} too, or leave all three empty.`]]),
+    );
+    throw new AppError("validation", "Give the chamber's width, height and depth together, or none of them.", fields);
+  }
+  const chamber = { widthMm: input.chamberWidthMm!, heightMm: input.chamberHeightMm!, depthMm: input.chamberDepthMm! };
+  const fits = stuThatFit(chamber);
+  if (input.capacityStu !== null && input.capacityStu > fits) {
+    throw new AppError("validation", `A chamber of ${describeChamber(chamber)} holds ${fits} whole StU of 300 × 300 × 600 mm, fewer than ${input.capacityStu}.`, {
+      capacityStu: [`At most ${fits} StU fit this chamber.`],
+    });
+  }
+  return { chamber, capacityStu: input.capacityStu ?? (fits > 0 ? fits : null) };
+}
+
 /** Every machine, by kind and code, with its program count and open washer batch. */
 export async function listMachines(db: Db, filter: { kind?: MachineKind; activeOnly?: boolean } = {}): Promise<MachineListRow[]> {
   let query = db
@@ -75,6 +109,9 @@ export async function listMachines(db: Db, filter: { kind?: MachineKind; activeO
       "machines.name",
       "machines.serial_number",
       "machines.capacity_stu",
+      "machines.chamber_width_mm",
+      "machines.chamber_height_mm",
+      "machines.chamber_depth_mm",
       "machines.active",
       eb.selectFrom("programs").whereRef("programs.machine_id", "=", "machines.id").select(eb.fn.countAll<number>().as("n")).as("program_count"),
     ])
@@ -98,6 +135,7 @@ export async function listMachines(db: Db, filter: { kind?: MachineKind; activeO
       name: r.name,
       serialNumber: r.serial_number,
       capacityStu: r.capacity_stu,
+      chamber: chamberOf(r),
       active: r.active === 1,
       programCount: Number(r.program_count ?? 0),
       openBatch: batch ? { id: batch.id, number: batch.number, status: batch.status as "loading" | "running" } : null,
@@ -124,6 +162,7 @@ export async function getMachine(db: Db, id: number): Promise<MachineDetail> {
     name: row.name,
     serialNumber: row.serial_number,
     capacityStu: row.capacity_stu,
+    chamber: chamberOf(row),
     active: row.active === 1,
     programCount: programs.length,
     openBatch: open ? { id: open.id, number: open.number, status: open.status as "loading" | "running" } : null,
@@ -162,6 +201,7 @@ export async function createMachine(db: Kysely<Database>, user: SessionUser, inp
   assertCan(user, "machines.manage");
   return db.transaction().execute(async (trx) => {
     await assertCodeFree(trx, input.code);
+    const { chamber, capacityStu } = chamberAndCapacity(input);
     const iso = now.toISOString();
     const { id } = await trx
       .insertInto("machines")
@@ -170,7 +210,10 @@ export async function createMachine(db: Kysely<Database>, user: SessionUser, inp
         code: input.code,
         name: input.name,
         serial_number: input.serialNumber,
-        capacity_stu: input.capacityStu,
+        capacity_stu: capacityStu,
+        chamber_width_mm: chamber?.widthMm ?? null,
+        chamber_height_mm: chamber?.heightMm ?? null,
+        chamber_depth_mm: chamber?.depthMm ?? null,
         active: input.active ? 1 : 0,
         created_at: iso,
         updated_at: iso,
@@ -193,6 +236,7 @@ export async function updateMachine(
   await db.transaction().execute(async (trx) => {
     const before = await getMachine(trx, input.id);
     await assertCodeFree(trx, input.code, input.id);
+    const { chamber, capacityStu } = chamberAndCapacity(input);
     if (before.kind !== input.kind && before.programCount > 0) {
       throw new AppError("validation", `${before.code} has programs for a ${before.kindLabel.toLowerCase()}, so its kind cannot change.`, {
         kind: ["A machine with programs keeps its kind; add a new machine instead."],
@@ -211,7 +255,10 @@ export async function updateMachine(
         code: input.code,
         name: input.name,
         serial_number: input.serialNumber,
-        capacity_stu: input.capacityStu,
+        capacity_stu: capacityStu,
+        chamber_width_mm: chamber?.widthMm ?? null,
+        chamber_height_mm: chamber?.heightMm ?? null,
+        chamber_depth_mm: chamber?.depthMm ?? null,
         active: input.active ? 1 : 0,
         updated_at: now.toISOString(),
       })

@@ -14,7 +14,9 @@ import { checkWasherBatch, type WasherRequirement } from "@/lib/cycles/washer";
 import { serverEnv } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { fetchPage, type Page, searchTerm } from "@/lib/http/paging";
+import { formatDateTime } from "@/lib/format";
 import { describeRequirement, washerRequirementOf } from "@/lib/machines/requirements";
+import { openFaultOf } from "@/lib/monitoring/service";
 import { identifyAtStation } from "@/lib/stations/identify";
 import { discardStoredFile, readFileFor, saveUpload } from "@/lib/storage/files";
 import { enteredIssues, enteredSamplesToCsv } from "./entered";
@@ -386,6 +388,10 @@ export async function openBatch(
     const machine = await trx.selectFrom("machines").selectAll().where("id", "=", input.machineId).executeTakeFirst();
     if (!machine || machine.kind !== "washer") throw notFound("That washer");
     if (machine.active !== 1) throw new AppError("conflict", `${machine.code} is switched off; choose another washer.`);
+    const fault = await openFaultOf(trx, machine.id);
+    if (fault) {
+      throw new AppError("conflict", `${machine.code} is out of use with a fault recorded ${formatDateTime(fault.at)}; choose another washer until the fault is cleared in the monitoring log.`);
+    }
     const program = await trx
       .selectFrom("programs")
       .selectAll()

@@ -168,7 +168,7 @@ describe("the washing station", () => {
       // The batch's own page: the decision, the reasons and the temperature curve.
       await page.getByRole("link", { name: "Open the batch record" }).click();
       await expect.poll(() => new URL(page.url()).pathname).toMatch(/^\/unit\/batches\/\d+$/);
-      await expect.poll(() => page.getByTestId("temperature-chart").count()).toBe(1);
+      await expect.poll(() => page.getByTestId("record-chart").count()).toBe(1);
       await expect.poll(() => page.getByTestId("batch-reasons").textContent()).toMatch(/below the required 3000/);
       await screenshot(page, "batch-failed-page");
 
