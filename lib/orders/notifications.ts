@@ -2,6 +2,7 @@ import "server-only";
 import type { Kysely, Transaction } from "kysely";
 import type { Database } from "@/db/schema";
 import { CUSTOMER_ROLES } from "@/lib/auth/roles";
+import { expectedDeliveryAt } from "@/lib/dispatch/publish";
 import { serverEnv } from "@/lib/env";
 import { formatDateTime } from "@/lib/format";
 import { enqueueMail } from "@/lib/mail/outbox";
@@ -78,6 +79,9 @@ export async function notifyOrder(
   const env = serverEnv();
   const tz = env.UNIT_TIME_ZONE;
   let recipients = await recipientsFor(db, order, kind);
+  // The expected time of a delivery comes from the day's published van plan when there is one.
+  const expectedAt =
+    extra.expectedAt !== undefined ? extra.expectedAt : kind === "out_for_delivery" && recipients.length > 0 ? await expectedDeliveryAt(db, orderId, tz) : null;
   // A booking confirmation goes to the person who booked (if they want it).
   if (kind === "booking_confirmed") recipients = recipients.filter((r) => r.id === order.created_by);
   for (const r of recipients) {
@@ -104,7 +108,7 @@ export async function notifyOrder(
         mail = readyMail(ctx);
         break;
       case "out_for_delivery":
-        mail = outForDeliveryMail(ctx, extra.expectedAt ? formatDateTime(extra.expectedAt, tz) : null);
+        mail = outForDeliveryMail(ctx, expectedAt ? formatDateTime(expectedAt, tz) : null);
         break;
       case "delivered":
         mail = deliveredMail(ctx);

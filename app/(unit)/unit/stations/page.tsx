@@ -1,4 +1,4 @@
-import { ArrowRight, Hand, Layers, type LucideIcon, Package, PackageCheck } from "lucide-react";
+import { ArrowRight, Flame, Hand, Layers, type LucideIcon, Package, PackageCheck, Truck } from "lucide-react";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { PageHeader } from "@/components/ui/page-header";
@@ -30,6 +30,18 @@ const STATIONS: { href: string; name: string; does: string; icon: LucideIcon }[]
     name: "Packing",
     does: "Inspect and count the contents against the list, pack, and print the label.",
     icon: Package,
+  },
+  {
+    href: "/unit/stations/sterilising",
+    name: "Sterilising",
+    does: "Scan packed sets into a steriliser load, start it after the day's air-removal test, and finish it with its record and indicators.",
+    icon: Flame,
+  },
+  {
+    href: "/unit/stations/dispatch",
+    name: "Dispatch",
+    does: "Scan released sets onto the van of today's run that delivers them, and see what each van still has to load.",
+    icon: Truck,
   },
 ];
 
