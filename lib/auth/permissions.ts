@@ -30,11 +30,27 @@ export const ACTIONS = [
   "stations.operate",
   "machines.view",
   "machines.manage",
+  "machine_log.view",
+  "machine_log.record",
+  "machine_log.manage",
   "board.view",
   "billing.view",
   "billing.manage",
   "invoices.pay",
   "mail.preferences",
+  "vans.manage",
+  "routes.view",
+  "routes.plan",
+  "runs.work",
+  "sterilisers.test",
+  "loads.view",
+  "loads.operate",
+  "loads.release",
+  "sterile_settings.manage",
+  "recalls.view",
+  "recalls.manage",
+  "reports.unit",
+  "reports.customer",
 ] as const;
 
 export type Action = (typeof ACTIONS)[number];
@@ -43,7 +59,7 @@ export type Action = (typeof ACTIONS)[number];
 const everyone: Action[] = ["home.view", "sites.view", "catalogue.view", "sets.view", "files.view"];
 
 export const PERMISSIONS: Record<Role, readonly Action[]> = {
-  clinic_staff: [...everyone, "files.upload", "orders.view", "orders.book", "problems.report", "procedures.record", "mail.preferences"],
+  clinic_staff: [...everyone, "files.upload", "orders.view", "orders.book", "problems.report", "procedures.record", "mail.preferences", "recalls.view", "reports.customer"],
   clinic_manager: [
     ...everyone,
     "files.upload",
@@ -58,9 +74,11 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "billing.view",
     "invoices.pay",
     "mail.preferences",
+    "recalls.view",
+    "reports.customer",
   ],
-  dispatcher: [...everyone, "organisations.view", "orders.view", "problems.answer", "board.view", "machines.view"],
-  driver: [...everyone, "files.upload"],
+  dispatcher: [...everyone, "organisations.view", "orders.view", "problems.answer", "board.view", "machines.view", "routes.view", "routes.plan", "recalls.view", "reports.unit"],
+  driver: [...everyone, "files.upload", "runs.work"],
   technician: [
     ...everyone,
     "organisations.view",
@@ -71,6 +89,12 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "stations.operate",
     "board.view",
     "machines.view",
+    "machine_log.view",
+    "machine_log.record",
+    "sterilisers.test",
+    "loads.view",
+    "loads.operate",
+    "recalls.view",
   ],
   quality_lead: [
     ...everyone,
@@ -84,6 +108,17 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "board.view",
     "machines.view",
     "machines.manage",
+    "machine_log.view",
+    "machine_log.record",
+    "machine_log.manage",
+    "sterilisers.test",
+    "loads.view",
+    "loads.operate",
+    "loads.release",
+    "sterile_settings.manage",
+    "recalls.view",
+    "recalls.manage",
+    "reports.unit",
   ],
   finance: [
     ...everyone,
@@ -95,6 +130,7 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "board.view",
     "billing.view",
     "billing.manage",
+    "reports.unit",
   ],
   admin: [
     ...everyone,
@@ -115,7 +151,13 @@ export const PERMISSIONS: Record<Role, readonly Action[]> = {
     "board.view",
     "machines.view",
     "machines.manage",
+    "machine_log.view",
     "billing.view",
+    "vans.manage",
+    "routes.view",
+    "loads.view",
+    "recalls.view",
+    "reports.unit",
   ],
 };
 

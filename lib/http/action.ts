@@ -5,6 +5,7 @@ import { getCurrentUser } from "@/lib/auth/current-user";
 import { type Action, assertCan } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { AppError, type ErrorCode, type FieldErrors, toAppError, zodFieldErrors } from "@/lib/errors";
+import { declareEntryPoint } from "./entry-points";
 
 // The one wrapper for server actions: the caller, the permission, the input parsed with the same
 // zod schema the form uses, and every error returned as data the form can show.
@@ -23,7 +24,7 @@ export function defineAction<S extends z.ZodType, T>(
   schema: S,
   run: (ctx: ActionContext, input: z.infer<S>) => Promise<T>,
 ) {
-  return async (input: z.input<S>): Promise<ActionResult<T>> => {
+  const wrapped = async (input: z.input<S>): Promise<ActionResult<T>> => {
     try {
       const user = await getCurrentUser();
       if (!user) throw new AppError("unauthenticated", "Your session has ended. Sign in again.");
@@ -40,6 +41,7 @@ export function defineAction<S extends z.ZodType, T>(
       return failure(error);
     }
   };
+  return declareEntryPoint(wrapped, action, schema);
 }
 
 /** The error result for anything thrown in an action. */

@@ -6,6 +6,7 @@ import { getRequestUser } from "@/lib/auth/current-user";
 import { type Action, assertCan } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { AppError, type ErrorBody, toAppError } from "@/lib/errors";
+import { declareEntryPoint } from "./entry-points";
 
 // The one wrapper for route handlers: loads the caller, checks the permission, refuses
 // cross-site state changes, and maps every error to its status and JSON body.
@@ -22,7 +23,7 @@ type Handler<P> = (ctx: RouteContext<P>) => Promise<unknown>;
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
 export function withAuth<P = Record<string, never>>(action: Action, handler: Handler<P>) {
-  return async (req: NextRequest, context: { params: Promise<P> }): Promise<Response> => {
+  const wrapped = async (req: NextRequest, context: { params: Promise<P> }): Promise<Response> => {
     try {
       if (!SAFE_METHODS.has(req.method)) assertSameOrigin(req);
       const user = await getRequestUser(req);
@@ -35,6 +36,7 @@ export function withAuth<P = Record<string, never>>(action: Action, handler: Han
       return errorResponse(error);
     }
   };
+  return declareEntryPoint(wrapped, action);
 }
 
 /** The JSON error answer for anything thrown in a handler. */
@@ -53,8 +55,17 @@ export function errorResponse(error: unknown): Response {
 export function assertSameOrigin(req: NextRequest): void {
   const origin = req.headers.get("origin");
   const host = req.headers.get("x-forwarded-host") ?? req.headers.get("host");
-  if (!origin || !host || new URL(origin).host !== host) {
+  if (!origin || !host || originHost(origin) !== host) {
     throw new AppError("forbidden", "This request did not come from a Steamlane page.");
+  }
+}
+
+/** The host of an Origin header, or null when it is not a URL (a malformed header is refused, not a 500). */
+function originHost(origin: string): string | null {
+  try {
+    return new URL(origin).host;
+  } catch {
+    return null;
   }
 }
 
