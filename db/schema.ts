@@ -39,6 +39,8 @@ export interface SitesTable {
   active: Generated<number>;
   created_at: string;
   updated_at: string;
+  /** How the site stores sterile goods, for the shelf-life rule at release (migration 0040). */
+  sterile_storage: Generated<SterileStorage>;
 }
 
 export type UserStatus = "invited" | "active" | "disabled";
@@ -136,6 +138,8 @@ export interface SetTypesTable {
   processing_notes: string | null;
   weight_g: number;
   size_stu: number;
+  /** 1 when the set holds implants: its loads wait for the biological indicator (migration 0040). */
+  contains_implant: Generated<number>;
   ifu_file_id: number | null;
   active: Generated<number>;
   created_at: string;
@@ -340,6 +344,42 @@ export interface MachinesTable {
   active: Generated<number>;
   created_at: string;
   updated_at: string;
+  chamber_width_mm: number | null;
+  chamber_height_mm: number | null;
+  chamber_depth_mm: number | null;
+}
+
+export type MachineLogKind = "washer_cleaning" | "service" | "fault" | "seal_test" | "water_reading" | "salt_refill" | "store_climate";
+
+export interface MachineLogTable {
+  id: Generated<number>;
+  kind: MachineLogKind;
+  machine_id: number | null;
+  place: string | null;
+  at: string;
+  recorded_by: number;
+  recorded_at: string;
+  outcome: "pass" | "fail" | null;
+  temperature_c: number | null;
+  humidity_pct: number | null;
+  conductivity_us_cm: number | null;
+  hardness_mmol_l: number | null;
+  salt_kg: number | null;
+  provider: string | null;
+  reference: string | null;
+  notes: string | null;
+  cleared_at: string | null;
+  cleared_by: number | null;
+  clearance_note: string | null;
+  out_of_range: Generated<number>;
+  findings: Generated<string>;
+}
+
+export interface MonitoringSettingsTable {
+  key: string;
+  value: string;
+  updated_by: number | null;
+  updated_at: string;
 }
 
 export interface ProgramsTable {
@@ -392,6 +432,110 @@ export interface PackRecordsTable {
   pouch: string | null;
   /** The pack or hold scan event this record belongs to (migration 0023). */
   scan_event_id: number | null;
+}
+
+export type SterileStorage = "protected" | "unprotected";
+export type MachineTestKind = "air_removal" | "leak";
+
+/** A steriliser's daily test for one unit day (YYYY-MM-DD in the unit's zone), migration 0040. */
+export interface MachineTestsTable {
+  id: Generated<number>;
+  machine_id: number;
+  kind: MachineTestKind;
+  unit_day: string;
+  result: "pass" | "fail";
+  leak_rate_kpa_min: number | null;
+  leak_limit_kpa_min: number | null;
+  notes: string | null;
+  performed_by: number | null;
+  performed_at: string;
+  created_at: string;
+}
+
+export type LoadStatus = "loading" | "running" | "awaiting_release" | "released" | "failed" | "aborted";
+export type BiResult = "pending" | "pass" | "fail" | "not_used";
+
+/** One run of a steriliser; `figures` and `reasons` are JSON of the record check (migration 0040). */
+export interface SteriliserLoadsTable {
+  id: Generated<number>;
+  number: string;
+  machine_id: number;
+  program_id: number;
+  status: LoadStatus;
+  contains_implant: Generated<number>;
+  air_removal_test_id: number | null;
+  created_by: number | null;
+  created_at: string;
+  started_by: number | null;
+  started_at: string | null;
+  ended_at: string | null;
+  finished_by: number | null;
+  record_file_id: number | null;
+  figures: string | null;
+  reasons: string | null;
+  record_passed: number | null;
+  ci_type: number | null;
+  ci_result: "pass" | "fail" | null;
+  bi_result: BiResult | null;
+  bi_lot: string | null;
+  bi_read_at: string | null;
+  bi_read_by: number | null;
+  early_release_reason: string | null;
+  early_release_by: number | null;
+  decision_by: number | null;
+  decision_at: string | null;
+  decision_notes: string | null;
+  failed_after_release: Generated<number>;
+}
+
+export interface LoadItemsTable {
+  load_id: number;
+  cycle_id: number;
+  shelf: Generated<"lower" | "any">;
+  added_by: number | null;
+  added_at: string;
+}
+
+export type ShelfLifeUnit = "hours" | "days" | "months" | "years";
+
+export interface ShelfLifeRulesTable {
+  id: Generated<number>;
+  packaging: string;
+  storage: SterileStorage;
+  amount: number;
+  unit: ShelfLifeUnit;
+  updated_by: number | null;
+  updated_at: string;
+}
+
+export interface SterileSettingsTable {
+  key: string;
+  value: string;
+  updated_by: number | null;
+  updated_at: string;
+}
+
+export interface RecallsTable {
+  id: Generated<number>;
+  number: string;
+  load_id: number;
+  reason: string;
+  status: "open" | "closed";
+  created_by: number | null;
+  created_at: string;
+  closed_at: string | null;
+}
+
+export interface RecallItemsTable {
+  id: Generated<number>;
+  recall_id: number;
+  cycle_id: number;
+  set_id: number;
+  organisation_id: number;
+  site_id: number;
+  state_at_recall: string;
+  returned_at: string | null;
+  returned_by: number | null;
 }
 
 export interface PaymentCustomersTable {
@@ -525,6 +669,118 @@ export interface OrderNoticesTable {
   created_by: number | null;
 }
 
+/** A van of the unit; carts ride in two segregated compartments (migration 0060). */
+export interface VansTable {
+  id: Generated<number>;
+  code: string;
+  name: string;
+  registration: string;
+  soiled_capacity_carts: number;
+  clean_capacity_carts: number;
+  active: Generated<number>;
+  created_at: string;
+  updated_at: string;
+}
+
+/** A driver's working day: minutes from local midnight of `day` (YYYY-MM-DD in the unit's zone). */
+export interface DriverShiftsTable {
+  id: Generated<number>;
+  user_id: number;
+  day: string;
+  start_min: number;
+  end_min: number;
+  break_earliest_min: number | null;
+  break_latest_min: number | null;
+  break_duration_min: Generated<number>;
+  van_id: number | null;
+  created_at: string;
+  updated_at: string;
+}
+
+export type RoutePlanStatus = "draft" | "published";
+
+/** One day's plan of van runs; `summary` is JSON (totals, the planner's notes). */
+export interface RoutePlansTable {
+  id: Generated<number>;
+  day: string;
+  status: RoutePlanStatus;
+  seed: number;
+  road_factor: number;
+  speed_kmh: number;
+  created_by: number | null;
+  created_at: string;
+  solved_at: string | null;
+  published_by: number | null;
+  published_at: string | null;
+  summary: Generated<string>;
+}
+
+/** One van's run in a plan: its driver and shift, and the planned figures. */
+export interface RouteRunsTable {
+  id: Generated<number>;
+  plan_id: number;
+  van_id: number;
+  driver_user_id: number;
+  shift_id: number;
+  distance_km: Generated<number>;
+  drive_min: Generated<number>;
+  start_min: number | null;
+  end_min: number | null;
+}
+
+export type RouteStopKind = "collection" | "delivery" | "both";
+export type RouteStopStatus = "planned" | "served" | "not_served";
+
+/** One visit to a customer site; run_id and position are null while unassigned. */
+export interface RouteStopsTable {
+  id: Generated<number>;
+  plan_id: number;
+  run_id: number | null;
+  position: number | null;
+  organisation_id: number;
+  site_id: number;
+  kind: RouteStopKind;
+  window_start_min: number;
+  window_end_min: number;
+  hard: Generated<number>;
+  service_min: number;
+  soiled_carts: Generated<number>;
+  clean_carts: Generated<number>;
+  planned_arrival_min: number | null;
+  planned_start_min: number | null;
+  late_min: number | null;
+  locked: Generated<number>;
+  status: Generated<RouteStopStatus>;
+  not_served_reason: string | null;
+  signature_file_id: number | null;
+  signed_by_name: string | null;
+  served_at: string | null;
+  served_by: number | null;
+  expected_time_notified_at: string | null;
+  /** The planned start last sent to the site by e-mail. */
+  notified_start_min: number | null;
+  /** Why the planner could not place the stop, or why it is late, in words. */
+  note: string | null;
+}
+
+export interface RouteStopOrdersTable {
+  stop_id: number;
+  order_id: number;
+  role: "collect" | "deliver";
+}
+
+/** A set scanned at a stop; client_event_id makes a retried scan a no-op. */
+export interface StopScansTable {
+  id: Generated<number>;
+  client_event_id: string;
+  stop_id: number;
+  cycle_id: number;
+  set_id: number;
+  kind: "collect" | "deliver";
+  scanned_by: number | null;
+  scanned_at: string;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   sites: SitesTable;
@@ -548,10 +804,19 @@ export interface Database {
   procedure_uses: ProcedureUsesTable;
   job_runs: JobRunsTable;
   machines: MachinesTable;
+  machine_log: MachineLogTable;
+  monitoring_settings: MonitoringSettingsTable;
   programs: ProgramsTable;
   washer_batches: WasherBatchesTable;
   washer_batch_items: WasherBatchItemsTable;
   pack_records: PackRecordsTable;
+  machine_tests: MachineTestsTable;
+  steriliser_loads: SteriliserLoadsTable;
+  load_items: LoadItemsTable;
+  shelf_life_rules: ShelfLifeRulesTable;
+  sterile_settings: SterileSettingsTable;
+  recalls: RecallsTable;
+  recall_items: RecallItemsTable;
   payment_customers: PaymentCustomersTable;
   invoice_runs: InvoiceRunsTable;
   invoices: InvoicesTable;
@@ -562,6 +827,13 @@ export interface Database {
   credit_notes: CreditNotesTable;
   reminder_rules: ReminderRulesTable;
   order_notices: OrderNoticesTable;
+  vans: VansTable;
+  driver_shifts: DriverShiftsTable;
+  route_plans: RoutePlansTable;
+  route_runs: RouteRunsTable;
+  route_stops: RouteStopsTable;
+  route_stop_orders: RouteStopOrdersTable;
+  stop_scans: StopScansTable;
 }
 
 export type Organisation = Selectable<OrganisationsTable>;

@@ -258,8 +258,12 @@ function PackForm({ view, onDone }: { view: PackingSetView; onDone: (result: Pac
             disabled={busy}
             onChange={(position, entry) => {
               setEntries((all) => ({ ...all, [position]: entry }));
-              // A line counted again drops its earlier complaint.
-              setError((e) => (e && e.fields[`line.${position}`] ? { ...e, fields: withoutKey(e.fields, `line.${position}`) } : e));
+              // A line counted again drops its earlier complaint; once no complaint is left, so does the message.
+              setError((e) => {
+                if (!e || !e.fields[`line.${position}`]) return e;
+                const fields = withoutKey(e.fields, `line.${position}`);
+                return Object.keys(fields).length === 0 ? null : { ...e, fields };
+              });
             }}
           />
         </CardBody>

@@ -1,7 +1,7 @@
 "use client";
 
 import * as DialogPrimitive from "@radix-ui/react-dialog";
-import { Archive, Barcode, BookOpen, Building2, Clock, Cog, FileText, Gauge, Home, LogOut, MapPin, Menu, MessageSquareWarning, Receipt, ScanLine, Truck, Users, X } from "lucide-react";
+import { Archive, Barcode, BookOpen, Building2, ChartLine, Clock, Cog, FileText, Gauge, Home, LogOut, MapPin, Menu, MessageSquareWarning, Receipt, ScanLine, Truck, Users, X } from "lucide-react";
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { signOut } from "next-auth/react";
@@ -26,6 +26,7 @@ const ICONS: Record<NavIcon, typeof Home> = {
   receipt: Receipt,
   alert: MessageSquareWarning,
   clock: Clock,
+  chart: ChartLine,
 };
 
 export interface ShellUser {

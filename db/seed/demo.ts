@@ -15,6 +15,9 @@ import { seedProcedureUses } from "./procedures";
 import { type InvoiceSeed, seedInvoices } from "./invoices";
 import { seedPayments } from "./payments";
 import { seedPackRecords } from "./packing";
+import { seedLoads } from "./loads";
+import { seedMonitoring } from "./monitoring";
+import { seedVans } from "./vans";
 
 // Writes the demo scenario into an empty, migrated database, in one transaction.
 
@@ -35,6 +38,9 @@ export interface SeedResult {
   programs?: Record<string, number>;
   /** The two months' invoices the demo has issued: ids by our number, run ids by month. */
   invoices?: InvoiceSeed;
+  /** Van ids by code, and the day of the demo's route plan (YYYY-MM-DD). */
+  vans?: Record<string, number>;
+  planDay?: string;
 }
 
 export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<SeedResult> {
@@ -114,6 +120,9 @@ export async function seedDemo(db: Kysely<Database>, now = new Date()): Promise<
     result.invoices = await seedInvoices(trx, result, now);
     await seedPayments(trx, result, now);
     await seedPackRecords(trx, result, now);
+    await seedLoads(trx, result, now);
+    await seedMonitoring(trx, result, now);
+    Object.assign(result, await seedVans(trx, result, now, passwordHash));
     return result;
   });
 }

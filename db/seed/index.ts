@@ -1,12 +1,12 @@
-// Seeds the demo scenario into the database at DATABASE_PATH (migrating it first).
-import { openDatabase } from "../connection";
+// Seeds the demo scenario into the configured database, DATABASE_URL or DATABASE_PATH (migrating it first).
+import { describeConfigured, openConfigured } from "../connection";
 import { migrateToLatest } from "../migrator";
 import { serverEnv } from "@/lib/env";
 import { seedDemo } from "./demo";
 
 async function main() {
-  const file = serverEnv().databasePath;
-  const db = openDatabase(file);
+  const file = describeConfigured(serverEnv());
+  const db = openConfigured(serverEnv());
   try {
     await migrateToLatest(db);
     const result = await seedDemo(db);

@@ -1,9 +1,11 @@
 import type { Transaction } from "kysely";
 import type { Database } from "@/db/schema";
 import { recordAudit } from "@/lib/audit/log";
+import { loadSessionUser } from "@/lib/auth/session-user";
+import { createCreditNoteIn } from "@/lib/billing/credit-notes";
 import { addDaysToDate, startOfLocalDate } from "@/lib/contracts/dates";
 import { createRunIn } from "@/lib/billing/run";
-import { addMonths, localDate, monthOf } from "@/lib/billing/run-periods";
+import { addMonths, billingPeriod, localDate, monthOf } from "@/lib/billing/run-periods";
 import { serverEnv } from "@/lib/env";
 import type { SeedResult } from "./demo";
 
@@ -20,6 +22,14 @@ import type { SeedResult } from "./demo";
 //   since no payment went through the payment service); the dental group's, on 14-day terms,
 //   is open and overdue; the veterinary clinic's is open.
 // - The later month: every invoice open, issued this month.
+// - One credit note: the hospital group disputed one set on its paid invoice of the earlier month
+//   (it came back with the contents list of another tray); finance credited that set two days
+//   after the payment. It is made by createCreditNoteIn, the credit-note code the app uses for an
+//   invoice paid outside the payment service, so it is settled outside it (out of band) and
+//   leaves the invoice paid.
+// - A month's run is made after the month has ended and before `now`: at 09:00 on the first day
+//   after it, or, when the demo is seeded earlier than that, in the time between the end of the
+//   month and `now` (a demo seeded at 00:30 on the 1st still bills last month in full).
 // Deterministic: everything derives from `now` and the history.
 
 const HOUR_MS = 3_600_000;
@@ -35,18 +45,28 @@ function earlier(a: Date, b: Date): Date {
   return a.getTime() < b.getTime() ? a : b;
 }
 
+const CREDITED = { organisation: "QMH", reason: "The set came back with the contents list of another tray; the clinic sent it back unused." } as const;
+
+/** When a month's run is created, approved and issued: after the month's end, before `now`. */
+function runTimes(month: string, timeZone: string, now: Date): { createdAt: Date; approvedAt: Date; issuedAt: Date } {
+  const end = new Date(billingPeriod(month, timeZone).end).getTime();
+  // At 09:00 on the first day after the month, or an hour before `now`.
+  const createdAt = Math.min(startOfLocalDate(`${addMonths(month, 1)}-01`, timeZone).getTime() + 9 * HOUR_MS, now.getTime() - HOUR_MS);
+  if (createdAt >= end) return { createdAt: new Date(createdAt), approvedAt: new Date(createdAt + 20 * 60_000), issuedAt: new Date(createdAt + 40 * 60_000) };
+  // Seeded within the hour after the month ended: the three steps share the time since, in whole seconds.
+  const step = Math.floor((now.getTime() - end) / 4 / 1000) * 1000;
+  return { createdAt: new Date(end + step), approvedAt: new Date(end + 2 * step), issuedAt: new Date(end + 3 * step) };
+}
+
 export async function seedInvoices(trx: Transaction<Database>, seed: SeedResult, now: Date): Promise<InvoiceSeed> {
   const timeZone = serverEnv().UNIT_TIME_ZONE;
   const finance = seed.users["finance@larkmoor.example"] ?? null;
   const thisMonth = monthOf(now, timeZone);
   const result: InvoiceSeed = { invoices: {}, runs: {} };
   const months = [addMonths(thisMonth, -2), addMonths(thisMonth, -1)];
+  let credit: { invoiceId: number; at: Date } | undefined;
   for (const [index, month] of months.entries()) {
-    const firstDayAfter = `${addMonths(month, 1)}-01`;
-    // The run is made at 09:00 on the first day after the month, or just before `now`.
-    const createdAt = earlier(new Date(startOfLocalDate(firstDayAfter, timeZone).getTime() + 9 * HOUR_MS), new Date(now.getTime() - HOUR_MS));
-    const approvedAt = new Date(createdAt.getTime() + 20 * 60_000);
-    const issuedAt = new Date(createdAt.getTime() + 40 * 60_000);
+    const { createdAt, approvedAt, issuedAt } = runTimes(month, timeZone, now);
     let created;
     try {
       created = await createRunIn(trx, finance, { period: month }, createdAt);
@@ -75,6 +95,7 @@ export async function seedInvoices(trx: Transaction<Database>, seed: SeedResult,
     for (const invoice of invoices) {
       const paid = index === 0 && (invoice.short_code === "QMH" || invoice.short_code === "ODS");
       const paidAt = earlier(new Date(startOfLocalDate(addDaysToDate(issueDate, 12), timeZone).getTime() + 10.5 * HOUR_MS), new Date(now.getTime() - 30 * 60_000));
+      if (paid && invoice.short_code === CREDITED.organisation) credit = { invoiceId: invoice.id, at: earlier(new Date(paidAt.getTime() + 2 * 24 * HOUR_MS), new Date(now.getTime() - 15 * 60_000)) };
       await trx
         .updateTable("invoices")
         .set({
@@ -101,5 +122,23 @@ export async function seedInvoices(trx: Transaction<Database>, seed: SeedResult,
       result.invoices[invoice.number] = invoice.id;
     }
   }
+  if (credit && finance !== null) await creditOneSet(trx, finance, credit.invoiceId, credit.at);
   return result;
+}
+
+/** Credits the first set of the invoice's first processing line, as finance would from the invoice page. */
+async function creditOneSet(trx: Transaction<Database>, financeId: number, invoiceId: number, at: Date): Promise<void> {
+  const row = await trx.selectFrom("users").select("session_version").where("id", "=", financeId).executeTakeFirstOrThrow();
+  const finance = await loadSessionUser(trx, { userId: financeId, sessionVersion: row.session_version });
+  if (!finance) return;
+  const line = await trx
+    .selectFrom("invoice_lines")
+    .select(["id", "cycle_ids"])
+    .where("invoice_id", "=", invoiceId)
+    .where("kind", "=", "processing")
+    .orderBy("position")
+    .executeTakeFirst();
+  const cycleId = line ? (JSON.parse(line.cycle_ids) as number[])[0] : undefined;
+  if (!line || cycleId === undefined) return;
+  await createCreditNoteIn(trx, finance, invoiceId, { kind: "lines", lines: [{ lineId: line.id, cycleIds: [Number(cycleId)] }], reason: CREDITED.reason }, at);
 }

@@ -1,5 +1,5 @@
 import "server-only";
-import type { Kysely } from "kysely";
+import type { Kysely, Transaction } from "kysely";
 import type Stripe from "stripe";
 import type { Database } from "@/db/schema";
 import { recordAudit } from "@/lib/audit/log";
@@ -63,24 +63,11 @@ export function creditNoteNumberFor(invoiceNumber: string, n: number): string {
   }
 }
 
-/** Creates a credit note against an issued invoice; the caller may manage billing. */
-export async function createCreditNote(
-  db: Kysely<Database>,
-  user: SessionUser,
-  invoiceId: number,
-  request: CreditNoteRequest,
-  now = new Date(),
-): Promise<CreatedCreditNote> {
-  let invoice = await findInvoiceInScope(db, user, invoiceId);
-  if (invoice.status === "draft") throw new AppError("conflict", `Invoice ${invoice.number} has not been issued; change the draft instead of crediting it.`);
-  if (invoice.status === "void") throw new AppError("conflict", `Invoice ${invoice.number} is void; there is nothing to credit.`);
+type Executor = Kysely<Database> | Transaction<Database>;
+type StoredInvoice = Awaited<ReturnType<typeof findInvoiceInScope>>;
 
-  // An open invoice gets its copy in the payment service first, so both amounts due move together.
-  if (!invoice.stripe_invoice_id && invoice.status !== "paid") {
-    await ensureStripeInvoice(db, invoice.id, now);
-    invoice = await findInvoiceInScope(db, user, invoiceId);
-  }
-
+/** What a credit note against `invoice` holds, computed by the pricing engine; writes nothing. */
+async function computeFor(db: Executor, invoice: StoredInvoice, request: CreditNoteRequest, now: Date) {
   const document = await invoiceDocumentFor(db, invoice);
   const previousRows = await db.selectFrom("credit_notes").selectAll().where("invoice_id", "=", invoice.id).orderBy("id").execute();
   const previous = previousRows.map((row) => creditNoteDocumentFor(row, document));
@@ -105,8 +92,7 @@ export async function createCreditNote(
     creditRequest = { kind: "amount", amountMinor: request.amountMinor, description: request.description };
   }
 
-  const n = previousRows.length + 1;
-  const number = creditNoteNumberFor(invoice.number, n);
+  const number = creditNoteNumberFor(invoice.number, previousRows.length + 1);
   const issueDate = billingToday(now);
   let computed: ReturnType<typeof computeCreditNote>;
   try {
@@ -114,8 +100,107 @@ export async function createCreditNote(
   } catch (error) {
     asAppError(error);
   }
+  return { number, computed, previousCount: previousRows.length };
+}
+
+/** Stores a computed credit note and lowers the invoice's amount due, in the caller's transaction, audited. */
+async function writeCreditNote(
+  trx: Transaction<Database>,
+  user: SessionUser,
+  invoice: StoredInvoice,
+  credit: Awaited<ReturnType<typeof computeFor>>,
+  request: CreditNoteRequest,
+  outcome: { settlement: CreatedCreditNote["settlement"]; refundedMinor: number; stripeCreditNoteId: string | null },
+  now: Date,
+): Promise<CreatedCreditNote> {
+  const { number, computed, previousCount } = credit;
   const { totals } = computed;
   const totalMinor = totals.taxInclusiveMinor;
+  const { settlement, stripeCreditNoteId } = outcome;
+  // Nothing else credited this invoice meanwhile (the numbers are taken in order).
+  const count = await trx.selectFrom("credit_notes").select((eb) => eb.fn.countAll<number>().as("n")).where("invoice_id", "=", invoice.id).executeTakeFirstOrThrow();
+  if (Number(count.n) !== previousCount) throw new AppError("conflict", "Another credit note was just made for this invoice. Reload the page and check what is left to credit.");
+  const current = await trx.selectFrom("invoices").select(["status", "amount_paid_minor", "amount_credited_minor"]).where("id", "=", invoice.id).executeTakeFirstOrThrow();
+  const credited = current.amount_credited_minor + totalMinor;
+  const amountDue = Math.max(0, invoice.total_minor - credited - current.amount_paid_minor);
+  const settled = current.status === "open" || current.status === "uncollectible" ? amountDue === 0 : false;
+  const { id } = await trx
+    .insertInto("credit_notes")
+    .values({
+      invoice_id: invoice.id,
+      number,
+      reason: request.reason,
+      net_minor: totals.taxExclusiveMinor,
+      vat_minor: totals.vatTotalMinor,
+      total_minor: totalMinor,
+      lines: JSON.stringify(computed.document.lines),
+      stripe_credit_note_id: stripeCreditNoteId,
+      settlement,
+      created_by: user.id,
+      created_at: now.toISOString(),
+    })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  await trx
+    .updateTable("invoices")
+    .set({
+      amount_credited_minor: credited,
+      amount_due_minor: amountDue,
+      ...(settled ? { status: "paid" as const, paid_at: now.toISOString(), last_payment_error: null } : {}),
+      updated_at: now.toISOString(),
+    })
+    .where("id", "=", invoice.id)
+    .execute();
+  await recordAudit(
+    trx,
+    {
+      actorUserId: user.id,
+      organisationId: invoice.organisation_id,
+      action: "credit_note.created",
+      entity: "invoice",
+      entityId: invoice.id,
+      details: {
+        creditNote: number,
+        reason: request.reason,
+        totalMinor,
+        vatMinor: totals.vatTotalMinor,
+        settlement,
+        refundedMinor: outcome.refundedMinor,
+        amountDueBefore: invoice.amount_due_minor,
+        amountDueAfter: amountDue,
+        stripeCreditNoteId,
+      },
+    },
+    now,
+  );
+  return { id, number, totalMinor, settlement, amountDueMinor: amountDue };
+}
+
+function assertCreditable(invoice: StoredInvoice): void {
+  if (invoice.status === "draft") throw new AppError("conflict", `Invoice ${invoice.number} has not been issued; change the draft instead of crediting it.`);
+  if (invoice.status === "void") throw new AppError("conflict", `Invoice ${invoice.number} is void; there is nothing to credit.`);
+}
+
+/** Creates a credit note against an issued invoice; the caller may manage billing. */
+export async function createCreditNote(
+  db: Kysely<Database>,
+  user: SessionUser,
+  invoiceId: number,
+  request: CreditNoteRequest,
+  now = new Date(),
+): Promise<CreatedCreditNote> {
+  let invoice = await findInvoiceInScope(db, user, invoiceId);
+  assertCreditable(invoice);
+
+  // An open invoice gets its copy in the payment service first, so both amounts due move together.
+  if (!invoice.stripe_invoice_id && invoice.status !== "paid") {
+    await ensureStripeInvoice(db, invoice.id, now);
+    invoice = await findInvoiceInScope(db, user, invoiceId);
+  }
+
+  const credit = await computeFor(db, invoice, request, now);
+  const totalMinor = credit.computed.totals.taxInclusiveMinor;
+  const { number } = credit;
 
   // What is still to pay absorbs the credit first; the rest is settled as finance chose.
   let stillDue = invoice.amount_due_minor;
@@ -162,65 +247,35 @@ export async function createCreditNote(
     }
   }
 
-  return db.transaction().execute(async (trx) => {
-    // Nothing else credited this invoice meanwhile (the numbers are taken in order).
-    const count = await trx.selectFrom("credit_notes").select((eb) => eb.fn.countAll<number>().as("n")).where("invoice_id", "=", invoice.id).executeTakeFirstOrThrow();
-    if (Number(count.n) !== previousRows.length) throw new AppError("conflict", "Another credit note was just made for this invoice. Reload the page and check what is left to credit.");
-    const current = await trx.selectFrom("invoices").select(["status", "amount_paid_minor", "amount_credited_minor"]).where("id", "=", invoice.id).executeTakeFirstOrThrow();
-    const credited = current.amount_credited_minor + totalMinor;
-    const amountDue = Math.max(0, invoice.total_minor - credited - current.amount_paid_minor);
-    const settled = current.status === "open" || current.status === "uncollectible" ? amountDue === 0 : false;
-    const { id } = await trx
-      .insertInto("credit_notes")
-      .values({
-        invoice_id: invoice.id,
-        number,
-        reason: request.reason,
-        net_minor: totals.taxExclusiveMinor,
-        vat_minor: totals.vatTotalMinor,
-        total_minor: totalMinor,
-        lines: JSON.stringify(computed.document.lines),
-        stripe_credit_note_id: stripeCreditNoteId,
-        settlement,
-        created_by: user.id,
-        created_at: now.toISOString(),
-      })
-      .returning("id")
-      .executeTakeFirstOrThrow();
-    await trx
-      .updateTable("invoices")
-      .set({
-        amount_credited_minor: credited,
-        amount_due_minor: amountDue,
-        ...(settled ? { status: "paid" as const, paid_at: now.toISOString(), last_payment_error: null } : {}),
-        updated_at: now.toISOString(),
-      })
-      .where("id", "=", invoice.id)
-      .execute();
-    await recordAudit(
-      trx,
-      {
-        actorUserId: user.id,
-        organisationId: invoice.organisation_id,
-        action: "credit_note.created",
-        entity: "invoice",
-        entityId: invoice.id,
-        details: {
-          creditNote: number,
-          reason: request.reason,
-          totalMinor,
-          vatMinor: totals.vatTotalMinor,
-          settlement,
-          refundedMinor: settlement === "refund" ? postPayment : 0,
-          amountDueBefore: invoice.amount_due_minor,
-          amountDueAfter: amountDue,
-          stripeCreditNoteId,
-        },
-      },
-      now,
-    );
-    return { id, number, totalMinor, settlement, amountDueMinor: amountDue };
-  });
+  const refundedMinor = settlement === "refund" ? postPayment : 0;
+  return db.transaction().execute((trx) => writeCreditNote(trx, user, invoice, credit, request, { settlement, refundedMinor, stripeCreditNoteId }, now));
+}
+
+/**
+ * Creates a credit note inside the caller's transaction, for a paid invoice that has no copy in
+ * the payment service (paid by bank transfer), so nothing needs the payment service: the credit is
+ * settled outside it. The demo's seed uses this directly; anything else goes through
+ * createCreditNote.
+ */
+export async function createCreditNoteIn(
+  trx: Transaction<Database>,
+  user: SessionUser,
+  invoiceId: number,
+  request: CreditNoteRequest,
+  now: Date,
+): Promise<CreatedCreditNote> {
+  const invoice = await findInvoiceInScope(trx, user, invoiceId);
+  assertCreditable(invoice);
+  if (invoice.stripe_invoice_id || invoice.status !== "paid") {
+    throw new AppError("conflict", `Invoice ${invoice.number} has a copy in the payment service or is still to be paid; credit it through the payment service.`);
+  }
+  if (request.settlement === "refund") {
+    throw new AppError("validation", "This invoice was not paid online, so there is no card payment to refund.", {
+      settlement: ["Choose “outside the payment service” (bank transfer or set-off)."],
+    });
+  }
+  const credit = await computeFor(trx, invoice, request, now);
+  return writeCreditNote(trx, user, invoice, credit, request, { settlement: "out_of_band", refundedMinor: 0, stripeCreditNoteId: null }, now);
 }
 
 /** Explains a credit note's money in one line, e.g. for a toast. */

@@ -1,36 +1,17 @@
 import "server-only";
 import type { Kysely } from "kysely";
-import Papa from "papaparse";
 import type { Database } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session-user";
+import { toCsv } from "@/lib/csv";
 import { formatBasisPoints, formatMinor } from "@/lib/pricing/money";
 import { calendarDate, periodDates } from "./exports-document";
 import { allInvoices, type InvoiceFilters, parseCycleIds, unitCodeOf } from "./invoices";
 
 // Finance's CSV exports: one row per invoice (headers), or one row per invoice line. Amounts are
 // decimals in the invoice's currency ("1656.25"), dates are calendar dates, one currency column.
-//
-// Spreadsheet formula injection (OWASP, "CSV Injection"): a text cell that begins with =, +, -,
-// @, a tab or a carriage return is prefixed with a single quote, so a spreadsheet shows it as
-// text instead of evaluating it. The amounts and counts we write ourselves are plain decimal
-// numbers ("-12.50"), which no spreadsheet evaluates as a formula; they are left as numbers so
-// that they still add up.
+// Every cell goes through lib/csv.ts, which neutralises spreadsheet formulas.
 
-const FORMULA_START = /^[=+\-@\t\r]/;
-const PLAIN_NUMBER = /^-?\d+(\.\d+)?$/;
-
-/** A cell made safe to open in a spreadsheet. */
-export function safeCell(value: string | number | null | undefined): string {
-  if (value === null || value === undefined) return "";
-  const text = String(value);
-  if (typeof value === "number" || PLAIN_NUMBER.test(text)) return text;
-  return FORMULA_START.test(text) ? `'${text}` : text;
-}
-
-function toCsv(header: string[], rows: (string | number | null)[][]): string {
-  // A byte-order mark lets spreadsheet programs read the file as UTF-8 (names with accents).
-  return `\uFEFF${Papa.unparse({ fields: header, data: rows.map((r) => r.map(safeCell)) }, { newline: "\r\n", quotes: false })}\r\n`;
-}
+export { safeCell } from "@/lib/csv";
 
 const HEADER_COLUMNS = [
   "invoice_number",

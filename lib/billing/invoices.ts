@@ -5,10 +5,12 @@ import type { Database, InvoiceStatus } from "@/db/schema";
 import { tenantScope } from "@/lib/auth/scope";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { addDaysToDate, localDateOf } from "@/lib/contracts/dates";
+import { daysBetween } from "@/db/dialect";
 import { serverEnv } from "@/lib/env";
 import { notFound } from "@/lib/errors";
 import { fetchPage, listQuerySchema, type Page, searchTerm } from "@/lib/http/paging";
 import { computeInvoiceTotals } from "@/lib/pricing/totals";
+import { AGE_BUCKETS, type AgeBucket, ageBucketOf } from "./ageing";
 import type { InvoiceLine, InvoiceLineKind, VatBreakdown, VatCategoryCode } from "@/lib/pricing/types";
 
 // Invoices as the finance pages and the clinic's invoice pages read them: the list with its age
@@ -26,17 +28,7 @@ import type { InvoiceLine, InvoiceLineKind, VatBreakdown, VatCategoryCode } from
 type Executor = Kysely<Database> | Transaction<Database>;
 
 export const INVOICE_STATUSES = ["draft", "open", "paid", "void", "uncollectible"] as const satisfies readonly InvoiceStatus[];
-export const AGE_BUCKETS = ["current", "1_30", "31_60", "61_90", "over_90"] as const;
-export type AgeBucket = (typeof AGE_BUCKETS)[number];
-
-/** The age bucket of an open invoice `daysOverdue` days past its due date (0 or less: not yet due). */
-export function ageBucketOf(daysOverdue: number): AgeBucket {
-  if (daysOverdue <= 0) return "current";
-  if (daysOverdue <= 30) return "1_30";
-  if (daysOverdue <= 60) return "31_60";
-  if (daysOverdue <= 90) return "61_90";
-  return "over_90";
-}
+export { AGE_BUCKETS, type AgeBucket, ageBucketOf } from "./ageing";
 
 /** Inclusive bounds of days overdue for each bucket (null: unbounded). */
 const BUCKET_BOUNDS: Record<AgeBucket, [number | null, number | null]> = {
@@ -93,8 +85,8 @@ export interface InvoiceListRow {
 }
 
 /** Days between the due date and `today`, as SQL (positive once overdue). */
-function daysOverdueSql(today: string) {
-  return sql<number>`cast(julianday(${today}) - julianday(invoices.due_date) as integer)`;
+function daysOverdueSql(db: Executor, today: string) {
+  return daysBetween(db, sql.ref("invoices.due_date"), today);
 }
 
 function scopedInvoices(db: Executor, user: SessionUser) {
@@ -195,7 +187,7 @@ export async function listInvoices(db: Executor, user: SessionUser, query: ListI
   const base = filtered(scopedInvoices(db, user), user, query, today);
   const page = await fetchPage(
     base,
-    (qb) => qb.select(LIST_COLUMNS).select(daysOverdueSql(today).as("days_overdue")),
+    (qb) => qb.select(LIST_COLUMNS).select(daysOverdueSql(db, today).as("days_overdue")),
     query,
     SORT_COLUMNS[query.sort],
     "invoices.id",
@@ -210,7 +202,7 @@ export async function allInvoices(db: Executor, user: SessionUser, filters: Invo
   const today = billingToday(now);
   const rows = await filtered(scopedInvoices(db, user), user, filters, today)
     .select(LIST_COLUMNS)
-    .select(daysOverdueSql(today).as("days_overdue"))
+    .select(daysOverdueSql(db, today).as("days_overdue"))
     .orderBy("invoices.number")
     .orderBy("invoices.id")
     .execute();
@@ -260,10 +252,10 @@ export async function summariseInvoices(
   const filteredRows = await aggregate(filtered(scopedInvoices(db, user), user, query, today)).execute();
   const broad = { q: query.q, organisationId: query.organisationId };
   const bucketSql = sql<AgeBucket>`case
-    when ${daysOverdueSql(today)} <= 0 then 'current'
-    when ${daysOverdueSql(today)} <= 30 then '1_30'
-    when ${daysOverdueSql(today)} <= 60 then '31_60'
-    when ${daysOverdueSql(today)} <= 90 then '61_90'
+    when ${daysOverdueSql(db, today)} <= 0 then 'current'
+    when ${daysOverdueSql(db, today)} <= 30 then '1_30'
+    when ${daysOverdueSql(db, today)} <= 60 then '31_60'
+    when ${daysOverdueSql(db, today)} <= 90 then '61_90'
     else 'over_90' end`;
   const ageRows = await filtered(scopedInvoices(db, user), user, broad, today)
     .where("invoices.status", "=", "open")

@@ -39,3 +39,37 @@ ${mailButton(input.link, "Choose your password")}
   );
   return { subject, text, html };
 }
+
+export function recallMail(input: {
+  organisationName: string;
+  recallNumber: string;
+  loadNumber: string;
+  reason: string;
+  sets: { serial: string; typeName: string; siteName: string }[];
+  link: string;
+}): RenderedMail {
+  const subject = `Recall ${input.recallNumber}: ${input.sets.length} set${input.sets.length === 1 ? "" : "s"} of ${input.organisationName} must not be used`;
+  const lines = input.sets.map((s) => `- ${s.serial} ${s.typeName} (${s.siteName})`);
+  const text = [
+    `Hello,`,
+    "",
+    `Steriliser load ${input.loadNumber} has failed after release. Do not use the sets below; keep them apart and send them back to the unit.`,
+    `Reason: ${input.reason}`,
+    "",
+    ...lines,
+    "",
+    `The recall, with the sets and their procedures: ${input.link}`,
+    "",
+    "This notice is advisory; follow your own validated procedures, qualified staff and local regulations on patient follow-up.",
+  ].join("\n");
+  const html = mailFrame(
+    subject,
+    `<p>Hello,</p>
+<p>Steriliser load <strong>${escapeHtml(input.loadNumber)}</strong> has failed after release. <strong>Do not use the sets below</strong>; keep them apart and send them back to the unit.</p>
+<p>Reason: ${escapeHtml(input.reason)}</p>
+<ul>${input.sets.map((s) => `<li>${escapeHtml(s.serial)} ${escapeHtml(s.typeName)} (${escapeHtml(s.siteName)})</li>`).join("")}</ul>
+${mailButton(input.link, "Open the recall")}
+<p style="font-size:12px;color:#555">This notice is advisory; follow your own validated procedures, qualified staff and local regulations on patient follow-up.</p>`,
+  );
+  return { subject, text, html };
+}

@@ -26,7 +26,11 @@ interface Prepared {
   giai: string;
 }
 
-/** New sets at the main theatres, each taken through a whole trip to "delivered" with an expiry date. */
+/**
+ * New sets at the main theatres, each taken through a whole trip to "delivered" with an expiry
+ * date. The trip ends now, so the delivery always falls in the current billing month (a trip laid
+ * out days back would, early in a month, leave the last month a delivery the demo never billed).
+ */
 async function deliveredSets(expiries: string[]): Promise<Prepared[]> {
   const adminRow = await db.selectFrom("users").select(["id", "session_version"]).where("email", "=", "admin@larkmoor.example").executeTakeFirstOrThrow();
   const admin = (await loadSessionUser(db, { userId: adminRow.id, sessionVersion: adminRow.session_version }))!;
@@ -40,7 +44,7 @@ async function deliveredSets(expiries: string[]): Promise<Prepared[]> {
     .orderBy("code")
     .executeTakeFirstOrThrow();
   const { sets } = await createSets(db, admin, { organisationId: site.organisation_id, setTypeId: type.id, homeSiteId: site.id, count: expiries.length });
-  const start = new Date(Date.now() - 3 * 86_400_000);
+  const start = new Date(Date.now() - TO_DELIVERED.length * 30 * 60_000);
   for (const [i, set] of sets.entries()) {
     const cycleId = await openCycle(db, {
       organisationId: site.organisation_id,

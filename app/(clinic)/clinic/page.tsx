@@ -11,6 +11,8 @@ import { listExpiringSets } from "@/lib/expiry/service";
 import { weekdayKey } from "@/lib/format";
 import { teamSummary } from "@/lib/home/queries";
 import { listSites } from "@/lib/sites/queries";
+import { RecallBanner } from "@/components/sterilising/recall-banner";
+import { listRecalls } from "@/lib/sterilising/recalls";
 
 export const metadata: Metadata = { title: "Overview" };
 
@@ -18,10 +20,11 @@ export const metadata: Metadata = { title: "Overview" };
 export default async function ClinicHome() {
   const user = await requirePermission("home.view");
   const db = getDb();
-  const [sites, team, expiring] = await Promise.all([
+  const [sites, team, expiring, recalls] = await Promise.all([
     listSites(db, user),
     can(user.role, "users.view") ? teamSummary(db, user) : Promise.resolve(null),
     listExpiringSets(db, user),
+    can(user.role, "recalls.view") ? listRecalls(db, user, { openOnly: true }) : Promise.resolve([]),
   ]);
   return (
     <>
@@ -29,6 +32,7 @@ export default async function ClinicHome() {
         title={`Good to see you, ${user.name.split(" ")[0]}`}
         description={`${user.organisationName} — what Larkmoor Sterile Services knows about your ${user.role === "clinic_staff" ? "site" : "sites"}.`}
       />
+      <RecallBanner recalls={recalls} />
       {team && (
         <div className="mb-8 grid gap-4 sm:grid-cols-3">
           <Stat label="People with access" value={team.active} />

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { Stat } from "@/components/home/stat";
+import { MonitoringWarningsPanel } from "@/components/monitoring/home-warnings";
 import { Card, CardBody, CardHeader } from "@/components/ui/card";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
@@ -8,7 +9,9 @@ import { requirePermission } from "@/lib/auth/current-user";
 import { can } from "@/lib/auth/permissions";
 import { ROLE_LABELS } from "@/lib/auth/roles";
 import { formatDate, formatDateTime, weekdayKey } from "@/lib/format";
+import { serverEnv } from "@/lib/env";
 import { customerSummaries, recentAudit, teamSummary } from "@/lib/home/queries";
+import { monitoringWarnings } from "@/lib/monitoring/service";
 import { formatDayHours } from "@/lib/sites/opening-hours";
 import { listSites } from "@/lib/sites/queries";
 
@@ -27,16 +30,19 @@ export default async function UnitHome() {
   const user = await requirePermission("home.view");
   const db = getDb();
   const now = new Date();
-  const [customers, sites, team, audit] = await Promise.all([
+  const timeZone = serverEnv().UNIT_TIME_ZONE;
+  const [customers, sites, team, audit, warnings] = await Promise.all([
     customerSummaries(db),
     user.role === "dispatcher" ? listSites(db, user) : Promise.resolve([]),
     can(user.role, "users.view") ? teamSummary(db, user) : Promise.resolve(null),
     can(user.role, "audit.view") ? recentAudit(db) : Promise.resolve([]),
+    can(user.role, "machine_log.view") ? monitoringWarnings(db, now, timeZone) : Promise.resolve(null),
   ]);
   const today = weekdayKey(now);
   return (
     <>
       <PageHeader title={`${ROLE_LABELS[user.role]} overview`} description={`${formatDate(now)} — ${FOCUS[user.role] ?? ""}`} />
+      {warnings && <MonitoringWarningsPanel warnings={warnings} timeZone={timeZone} />}
       {team && (
         <div className="mb-8 grid gap-4 sm:grid-cols-3">
           <Stat label="Customers" value={customers.length} />
