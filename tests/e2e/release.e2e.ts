@@ -71,6 +71,12 @@ async function packedSet(): Promise<{ setId: number; serial: string; cycleId: nu
   return { setId: set.id, serial: set.serial, cycleId };
 }
 
+/** Signs in and waits until the app has left the sign-in page for the person's home. */
+async function signedIn(page: import("playwright-core").Page, email: string) {
+  await signIn(page, email, DEMO_PASSWORD);
+  await expect.poll(() => new URL(page.url()).pathname, { timeout: 20_000 }).not.toBe("/sign-in");
+}
+
 function recordFile(): string {
   const csv = recordToCsv(synthSterilizerRecord({ plateauTempC: 135, plateauSeconds: 240, stepSeconds: 10 }), { startedAt: new Date(Date.now() - 1800_000).toISOString(), decimals: 2 });
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "load-")), "load-record.csv");
@@ -91,7 +97,7 @@ async function recordAirTest(page: import("playwright-core").Page, machineId: nu
 async function runLoad(code: string, serial: string): Promise<string> {
   const { context, page } = await newPage(browser);
   try {
-    await signIn(page, TECH, DEMO_PASSWORD);
+    await signedIn(page, TECH);
     await page.goto("/unit/stations/sterilising");
     await page.getByTestId(`steriliser-${code}`).click();
     await page.getByRole("button", { name: `Open a load on ${code}` }).click();
@@ -123,7 +129,7 @@ describe("sterilising, release and recall", () => {
     const first = await packedSet();
 
     const q = await newPage(browser);
-    await signIn(q.page, QUALITY, DEMO_PASSWORD);
+    await signedIn(q.page, QUALITY);
     await recordAirTest(q.page, goodId, "pass");
     await recordAirTest(q.page, badId, "pass");
 
