@@ -128,8 +128,10 @@ export function comparisonRows(figures: StoredFigures): ComparisonRow[] {
       ok: null,
     });
   }
-  rows.push({ label: "Lowest temperature during the hold", computed: deg(figures.minTempC), required: "—", ok: null });
-  rows.push({ label: "Highest temperature during the hold", computed: deg(figures.maxTempC), required: "—", ok: null });
+  // The hold is the longest run at or above the threshold, ramp included, so its lowest value sits
+  // near the threshold itself: say which range the figures are taken over.
+  rows.push({ label: `Lowest temperature while at or above ${figures.holdThresholdC} °C`, computed: deg(figures.minTempC), required: "—", ok: null });
+  rows.push({ label: `Highest temperature while at or above ${figures.holdThresholdC} °C`, computed: deg(figures.maxTempC), required: "—", ok: null });
   rows.push({ label: "Highest temperature of the disinfection stage", computed: deg(figures.peakTempC), required: "—", ok: null });
   rows.push({ label: "Length of the record", computed: formatDuration(figures.durationSeconds), required: "—", ok: null });
   return rows;
