@@ -55,11 +55,12 @@ describe("signing in", () => {
   it("throttles the sixth failure in a row and says when to try again", async () => {
     const { context, page } = await newPage(browser);
     try {
+      // An account no other end-to-end file signs in with: it stays locked for 15 minutes.
       for (let i = 0; i < 5; i++) {
-        await signIn(page, "tech2@larkmoor.example", `wrong-${i}`);
+        await signIn(page, "driver2@larkmoor.example", `wrong-${i}`);
         await expect.poll(() => formError(page).textContent()).toContain("Wrong e-mail or password");
       }
-      await signIn(page, "tech2@larkmoor.example", DEMO_PASSWORD);
+      await signIn(page, "driver2@larkmoor.example", DEMO_PASSWORD);
       await expect.poll(() => formError(page).textContent()).toMatch(/Too many failed sign-ins.*Try again after \d\d:\d\d/);
       await screenshot(page, "sign-in-throttled");
     } finally {
