@@ -7,6 +7,7 @@ import type { SessionUser } from "@/lib/auth/session-user";
 import { serverEnv } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { evaluateRoute, GreatCircleTravel, type Problem, type Solution, solve, type Stop, type Vehicle, type Violation } from "@/lib/routing";
+import { solveInWorker } from "@/lib/routing/solve-in-worker";
 import { parseOpeningHours } from "@/lib/sites/opening-hours";
 import { buildDayStops, type CollectionInput, type DayStop, type DeliveryInput, planClock, type StopSite, type UnplannableVisit } from "./stops";
 
@@ -453,7 +454,9 @@ export async function planDay(db: Kysely<Database>, user: SessionUser, input: { 
   if (model.problem.vehicles.length === 0) {
     throw new AppError("conflict", "No driver has a shift with a van on this day: add the drivers' shifts first.");
   }
-  const solution = solve(model.problem, model.travel, { seed: input.seed, timeBudgetMs: budgetMs });
+  // In a worker thread: the search takes its whole budget, and the server answers others meanwhile.
+  const travel = { roadFactor: model.travel.roadFactor, speedKmh: model.travel.speedKmh };
+  const solution = await solveInWorker(model.problem, travel, { seed: input.seed, timeBudgetMs: budgetMs });
   const stopIds = model.problem.stops.map((s) => s.id).sort().join(",");
   // 3. The runs, in one transaction, if the stops are still the ones planned.
   await db.transaction().execute(async (trx) => {

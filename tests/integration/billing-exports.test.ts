@@ -6,19 +6,20 @@ import { GET as invoicePdfRoute } from "@/app/api/billing/invoices/[id]/invoice.
 import { GET as invoiceXmlRoute } from "@/app/api/billing/invoices/[id]/invoice.xml/route";
 import { GET as headersCsvRoute } from "@/app/api/billing/invoices/headers.csv/route";
 import { GET as linesCsvRoute } from "@/app/api/billing/invoices/lines.csv/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { createCreditNote } from "@/lib/billing/credit-notes";
 import { safeCell } from "@/lib/billing/exports-csv";
 import { readUblDocument } from "@/lib/pricing/ubl-read";
 import { validateEn16931 } from "@/lib/pricing/validate-en16931";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // Finance's exports of the seeded invoices: CSV (with spreadsheet formulas defused), UBL 2.1
 // that passes the EN 16931 checks and reads back, and the PDF. No payment service is configured
 // in this file: none of the exports may need one.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const FINANCE = "finance@larkmoor.example";
 
@@ -27,8 +28,8 @@ const asFinance = (url: string) => requestAs(seed.users[FINANCE]!, url);
 
 beforeAll(async () => {
   delete process.env.STRIPE_SECRET_KEY;
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

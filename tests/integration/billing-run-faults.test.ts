@@ -5,7 +5,7 @@ import os from "node:os";
 import path from "node:path";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { RequestLogEntry } from "@/fakes/stripe/core";
 import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
 import type { SessionUser } from "@/lib/auth/session-user";
@@ -14,7 +14,7 @@ import { issueRun } from "@/lib/billing/run-issue";
 import { AppError } from "@/lib/errors";
 import { resetStripeClient } from "@/lib/stripe";
 import { addCustomer, deliver, type TestCustomer } from "../unit/billing/db-fixtures";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 
 // Issuing a run while the payment service fails: stopped mid-run, answering 500, losing its
@@ -25,7 +25,7 @@ import { sessionUser } from "../support/session";
 
 const KEY = "sk_test_billing_faults";
 const NOW = new Date("2026-12-01T10:00:00Z");
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let user: SessionUser;
 let dataDir: string;
@@ -116,9 +116,9 @@ beforeAll(async () => {
   process.env.STRIPE_API_PORT = String(proxy.port);
   process.env.STRIPE_API_PROTOCOL = "http";
   process.env.STRIPE_WEBHOOK_SECRET = fake.webhookSecret;
-  t = await useFreshDatabase();
   resetStripeClient();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   user = await sessionUser(t.db, seed.users["finance@larkmoor.example"]!);
   direct = new Stripe(KEY, { host: "127.0.0.1", port: fakePort, protocol: "http", maxNetworkRetries: 0, telemetry: false });
 

@@ -3,14 +3,15 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as previewRoute } from "@/app/api/billing/preview/route";
 import { GET as runRoute } from "@/app/api/billing/runs/[id]/route";
 import { GET as runsRoute } from "@/app/api/billing/runs/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
 import { approveRun, createRun, discardRun, getRunDetail, previewRun } from "@/lib/billing/run";
 import { issueRun } from "@/lib/billing/run-issue";
 import { AppError } from "@/lib/errors";
 import { resetStripeClient } from "@/lib/stripe";
 import { addCustomer, deliver, type TestCustomer } from "../unit/billing/db-fixtures";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // Invoice runs end to end against the demo database and the local fake of the payment service
@@ -19,7 +20,7 @@ import { params, requestAs, sessionUser } from "../support/session";
 // contract version, customers that cannot be invoiced, and sets delivered late into a month
 // already invoiced.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let fake: FakeStripe;
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -38,11 +39,11 @@ beforeAll(async () => {
   process.env.STRIPE_API_PORT = String(fake.port);
   process.env.STRIPE_API_PROTOCOL = "http";
   process.env.STRIPE_WEBHOOK_SECRET = fake.webhookSecret;
-  t = await useFreshDatabase();
   resetStripeClient();
   // The demo invoices October and November 2026 itself; the customers below are new, so
   // November's preview holds only them.
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
 
   // Brindle Hollow Clinic: graduated basic trays, a minimum fee and a 10 % turnaround credit,
   // on a clock that runs around the clock (lateness = more than 24 h from receipt to delivery).
@@ -266,7 +267,7 @@ describe("creating, approving and issuing a run", () => {
     expect(await countRows(t.db, [...TABLES])).toEqual(before);
     // The database refuses a cycle priced twice, whatever the code does.
     const one = await t.db.selectFrom("priced_cycles").selectAll().limit(1).executeTakeFirstOrThrow();
-    await expect(t.db.insertInto("priced_cycles").values({ ...one, priced_at: NOW.toISOString() }).execute()).rejects.toThrow(/UNIQUE|PRIMARY/);
+    await expect(t.db.insertInto("priced_cycles").values({ ...one, priced_at: NOW.toISOString() }).execute()).rejects.toThrow(/UNIQUE|PRIMARY|duplicate key/);
   });
 
   it("approves once, audited with who created it; an approved run cannot be discarded", async () => {

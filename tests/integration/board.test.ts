@@ -1,19 +1,19 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as boardRoute } from "@/app/api/board/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { BOARD_STATES, type BoardState, isDueSoon, isOverdue, overdueMinutes } from "@/lib/board/definitions";
 import { getUnitBoard, type UnitBoard } from "@/lib/board/service";
 import type { CycleEvent } from "@/lib/cycles/lifecycle";
 import { applyCycleEvent } from "@/lib/cycles/store";
 import { bookingSchema } from "@/lib/orders/schemas";
 import { bookPickup, getOrderDetail } from "@/lib/orders/service";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // The unit's board on a prepared database: two orders moved to known states, counted against the
 // board of the same moment before they were added (whatever else the demo holds stays the same).
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const NOW = new Date("2026-12-01T10:00:00Z");
 // A week later: every prepared set not yet released is past its promised time.
@@ -91,8 +91,8 @@ const counts = (board: UnitBoard) => Object.fromEntries(board.columns.map((c) =>
 const minus = (a: Record<string, number>, b: Record<string, number>) => Object.fromEntries(Object.keys(a).map((k) => [k, a[k]! - (b[k] ?? 0)]));
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   const admin = await sessionUser(t.db, seed.users["admin@larkmoor.example"]!);
   before = { now: await getUnitBoard(t.db, admin, NOW), later: await getUnitBoard(t.db, admin, LATER) };
   standard = await prepare("theatres@quillby.example", THEATRES, "standard", ["collected", "received", "washed", "packed", "sterilised", "released"]);

@@ -4,20 +4,21 @@ import { NextRequest } from "next/server";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { POST as checkRoute } from "@/app/api/set-types/import/check/route";
 import { POST as importRoute } from "@/app/api/set-types/import/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { ImportOutcome, ImportPlan } from "@/lib/catalogue/import-service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, sessionCookie } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const TABLES = ["set_types", "set_type_items", "files", "audit_log"] as const;
 const HEADER = "code,name,set_class,packaging,method,flags,weight_kg,size_stu,notes,item,count";
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

@@ -5,13 +5,14 @@ import { POST as uploadRoute } from "@/app/api/files/route";
 import { GET as getSetTypeRoute } from "@/app/api/set-types/[id]/route";
 import { GET as listSetTypesRoute } from "@/app/api/set-types/route";
 import { getDb } from "@/db";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { loadSessionUser } from "@/lib/auth/session-user";
 import { createSetTypeAction, setSetTypeActiveAction, updateSetTypeAction } from "@/lib/catalogue/actions";
 import type { CreateSetTypeInput } from "@/lib/catalogue/schemas";
 import { getSetType, type SetTypeDetail } from "@/lib/catalogue/set-types";
 import { ERROR_STATUS } from "@/lib/errors";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionCookie, sessionUser } from "../support/session";
 
 // Server actions read the caller from the next-auth session of the request; here the caller is
@@ -25,13 +26,13 @@ vi.mock("@/lib/auth/current-user", async (importOriginal) => {
   };
 });
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const TABLES = ["set_types", "set_type_items", "audit_log"] as const;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

@@ -1,8 +1,9 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { createContractAction, endContractAction, updateContractAction } from "@/lib/contracts/actions";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 import { validFormValues } from "../unit/contracts/fixtures";
 
@@ -12,12 +13,12 @@ const session = vi.hoisted(() => ({ user: null as SessionUser | null }));
 vi.mock("@/lib/auth/current-user", () => ({ getCurrentUser: async () => session.user }));
 
 const TABLES = ["contracts", "contract_rates", "contract_surcharges", "audit_log"] as const;
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 beforeEach(async () => {

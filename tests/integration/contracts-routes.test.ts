@@ -1,19 +1,19 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as getContractRoute } from "@/app/api/contracts/[id]/route";
 import { GET as listContractsRoute } from "@/app/api/contracts/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { params, requestAs } from "../support/session";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 
 // The contract route handlers answer within the caller's tenant scope. The demo is seeded as of
 // today, as the handlers read the unit's today for the status.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

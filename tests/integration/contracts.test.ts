@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { contractVersionSchema, type ContractVersionInput } from "@/lib/contracts/schemas";
 import { contractHistory, contractTermsBetween, contractTermsFor, createContract, endContract, getContract, updateContract } from "@/lib/contracts/service";
@@ -7,7 +7,8 @@ import { AppError } from "@/lib/errors";
 import { calendarMonthPeriod } from "@/lib/pricing/period";
 import { priceInvoicePeriod } from "@/lib/pricing/price-period";
 import type { PricedCycleInput } from "@/lib/pricing/types";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 import { validFormValues } from "../unit/contracts/fixtures";
 
@@ -19,13 +20,13 @@ const NOW = new Date("2026-12-01T10:00:00Z");
 const LONDON = "Europe/London";
 const TABLES = ["contracts", "contract_rates", "contract_surcharges", "audit_log"] as const;
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let finance: SessionUser;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, NOW);
+  t = await useDemoDatabase(NOW);
+  seed = t.seed;
   finance = await sessionUser(t.db, seed.users["finance@larkmoor.example"]!);
 });
 afterAll(() => t.cleanup());

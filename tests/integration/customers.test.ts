@@ -2,23 +2,24 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as getOrganisationRoute } from "@/app/api/organisations/[id]/route";
 import { GET as listOrganisationsRoute } from "@/app/api/organisations/route";
 import { GET as listSitesRoute } from "@/app/api/sites/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { AppError } from "@/lib/errors";
 import { organisationSchema } from "@/lib/organisations/schemas";
 import { createCustomer, setOrganisationActive, updateOrganisation } from "@/lib/organisations/service";
 import { weeklyHours } from "@/lib/sites/opening-hours";
 import { siteSchema } from "@/lib/sites/schemas";
 import { createSite, setSiteActive, updateSite } from "@/lib/sites/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const TABLES = ["organisations", "sites", "audit_log"] as const;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

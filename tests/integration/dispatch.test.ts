@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as planRoute } from "@/app/api/dispatch/[day]/route";
 import { GET as manifestRoute } from "@/app/api/dispatch/[day]/manifest/[vanId]/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { addDays } from "@/lib/dispatch/days";
 import { currentSolution, lockStop, moveStop, planDay } from "@/lib/dispatch/plan";
 import { expectedDeliveryAt, publishPlan } from "@/lib/dispatch/publish";
@@ -10,13 +10,14 @@ import { saveShift } from "@/lib/dispatch/vans";
 import { AppError } from "@/lib/errors";
 import { notifyOrder } from "@/lib/orders/notifications";
 import { validateSolution } from "@/lib/routing";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // The dispatcher's day against the demo scenario: planning, moving and locking stops,
 // publishing with the expected-time e-mails, who may read a plan, and refused input.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let day: string;
 const DISPATCHER = "dispatch@larkmoor.example";
@@ -26,8 +27,8 @@ const dispatcher = () => sessionUser(t.db, seed.users[DISPATCHER]!);
 
 // Writing the whole demo scenario takes a while on a busy machine.
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
   day = seed.planDay!;
 }, 240_000);
 afterAll(() => t.cleanup());

@@ -1,7 +1,7 @@
 import type { Kysely } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as expiringRoute } from "@/app/api/expiring/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import type { CycleEvent } from "@/lib/cycles/lifecycle";
 import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
@@ -17,10 +17,11 @@ import { recordProcedureUse } from "@/lib/procedures/service";
 import { createSets } from "@/lib/sets/service";
 import { weeklyHours } from "@/lib/sites/opening-hours";
 import type { ServiceCalendar } from "@/lib/turnaround";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { requestAs, sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 // Tuesday 1 December 2026, 10:00 in London (GMT): the demo's contracts are in force.
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -87,8 +88,8 @@ const cycles: Record<string, number> = {};
 const serials: Record<string, string> = {};
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   // Only this file's sets carry an expiry date, so the lists hold exactly what it made.
   await t.db.updateTable("cycles").set({ expires_on: null }).execute();
   const theatre = await freshSets(THEATRES, 11);

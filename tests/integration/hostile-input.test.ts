@@ -2,7 +2,7 @@ import fc from "fast-check";
 import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import type { z } from "zod";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { can, PERMISSIONS, type Action } from "@/lib/auth/permissions";
 import type { Role } from "@/lib/auth/roles";
 import type { SessionUser } from "@/lib/auth/session-user";
@@ -12,7 +12,8 @@ import { CycleRecordError } from "@/lib/cycles/errors";
 import { parseSterilizerRecord, parseWasherRecord } from "@/lib/cycles/parse";
 import { AppError } from "@/lib/errors";
 import { declaredPermission, declaredSchema } from "@/lib/http/entry-points";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { absolute, routeModules, serverActionModules } from "../support/entry-points";
 import { params, requestAs, sessionUser } from "../support/session";
 
@@ -105,7 +106,7 @@ function shaped(schema: z.ZodType, depth = 0): fc.Arbitrary<unknown> {
   }
 }
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const users = new Map<Role, SessionUser>();
 
@@ -115,8 +116,8 @@ async function totalChanges(): Promise<number> {
 }
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
   const byRole = new Map<string, number>();
   for (const [email, id] of Object.entries(seed.users)) {
     const row = await t.db.selectFrom("users").select("role").where("id", "=", id).executeTakeFirstOrThrow();

@@ -1,13 +1,13 @@
-import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { NextRequest } from "next/server";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { can, PERMISSIONS, type Action } from "@/lib/auth/permissions";
 import { isCustomerRole, type Role } from "@/lib/auth/roles";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { declaredPermission } from "@/lib/http/entry-points";
 import type { DB } from "@/db";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { writeCounter } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { absolute, HTTP_METHODS, routeModules, serverActionModules } from "../support/entry-points";
 import { params, requestAs, sessionUser } from "../support/session";
 
@@ -291,20 +291,19 @@ const unitRoles = (Object.keys(PERMISSIONS) as Role[]).filter((r) => !isCustomer
 /** An action only customers hold: unit staff must be refused it. */
 const customerOnly = (action: Action) => unitRoles.every((r) => !can(r, action));
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const records: Record<string, TenantRecords> = {};
 const users: Record<string, SessionUser> = {};
 let cells = 0;
 
-async function totalChanges(): Promise<number> {
-  const { rows } = await sql<{ n: number }>`select total_changes() as n`.execute(t.db);
-  return Number(rows[0]!.n);
-}
+/** Rows written so far (tests/support/db.ts). */
+let totalChanges: () => Promise<number>;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
+  totalChanges = await writeCounter(t.db);
   for (const code of [CUSTOMER_A, CUSTOMER_B]) records[code] = await tenantRecords(t.db, seed.organisations[code]!);
   for (const c of CALLERS) users[c.email] = await sessionUser(t.db, seed.users[c.email]!);
 }, 300_000);

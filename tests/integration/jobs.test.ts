@@ -1,7 +1,7 @@
 import type { Kysely } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getMailPreferences, saveMailPreferences } from "@/app/(clinic)/clinic/settings/preferences";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import type { CycleEvent } from "@/lib/cycles/lifecycle";
 import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
@@ -12,10 +12,11 @@ import { type Job, runDueJobs } from "@/lib/jobs/scheduler";
 import { enqueueMail } from "@/lib/mail/outbox";
 import { MAIL_KINDS, parseMailPreferences } from "@/lib/orders/mail-preferences";
 import { createSets } from "@/lib/sets/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const THEATRES = "Quillby Moor General – Main Theatres";
 const DAY_CASE = "Quillby Moor General – Day Case Unit";
@@ -72,8 +73,8 @@ const digests = () => t.db.selectFrom("outbox").selectAll().where("template", "=
 const serial: Record<string, string> = {};
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   // Only this file's sets carry an expiry date, so the lists hold exactly what it made.
   await t.db.updateTable("cycles").set({ expires_on: null }).execute();
   // The history replay queues no mail; start from an empty outbox all the same.

@@ -6,10 +6,11 @@ import { POST as scanRoute } from "@/app/api/stations/sterilising/loads/[id]/sca
 import { POST as startRoute } from "@/app/api/stations/sterilising/loads/[id]/start/route";
 import { POST as openRoute } from "@/app/api/stations/sterilising/loads/route";
 import { POST as testRoute } from "@/app/api/sterilisers/tests/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import type { LoadView } from "@/lib/sterilising/loads";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { type FreeSet, freeSteamSets, makeSteriliser, packedCycle, steamCsv } from "../support/loads";
 import { params, requestAs, sessionUser } from "../support/session";
 
@@ -17,7 +18,7 @@ import { params, requestAs, sessionUser } from "../support/session";
 // the load list and its refusals (order, capacity, method), the record check with nothing saved
 // on an unreadable file, and finishing, which moves every set with "sterilise".
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let free: FreeSet[] = [];
 let tech: SessionUser;
@@ -75,8 +76,8 @@ async function runningLoadWith(count = 1, capacity = 6) {
 }
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   tech = await sessionUser(t.db, seed.users["tech@larkmoor.example"]!);
   free = await freeSteamSets(t.db);
 });

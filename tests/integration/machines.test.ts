@@ -1,11 +1,12 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { createMachineAction, createProgramAction, updateMachineAction, updateProgramAction } from "@/lib/machines/actions";
 import { programFormValues } from "@/lib/machines/schemas";
 import { getMachine, listMachines } from "@/lib/machines/service";
 import { openBatch } from "@/lib/washing/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 
 // The machine and program actions below the session: the signed-in user is supplied here, since
@@ -14,12 +15,12 @@ const session = vi.hoisted(() => ({ user: null as SessionUser | null }));
 vi.mock("@/lib/auth/current-user", () => ({ getCurrentUser: async () => session.user }));
 
 const TABLES = ["machines", "programs", "audit_log"] as const;
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 beforeEach(async () => {

@@ -2,14 +2,15 @@ import type { NextRequest } from "next/server";
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
 import { GET as recordPdfRoute } from "@/app/api/batches/[id]/record.pdf/route";
 import { GET as loadPdfRoute } from "@/app/api/loads/[id]/record.pdf/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { toLocalDateTimeText } from "@/lib/local-time";
 import { clearFaultAction, recordEntryAction, saveSettingsAction } from "@/lib/monitoring/actions";
 import { DEFAULT_SETTINGS } from "@/lib/monitoring/limits";
 import { checkStatuses, listEntries, loadSettings, monitoringWarnings } from "@/lib/monitoring/service";
 import { openBatch } from "@/lib/washing/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // The monitoring and maintenance log on the seeded demo: the home warnings it seeds, recording
@@ -28,7 +29,7 @@ const SEEDED_AT = new Date("2026-12-01T08:00:00Z");
 const TABLES = ["machine_log", "monitoring_settings", "audit_log"] as const;
 type Route = (req: NextRequest, ctx: never) => Promise<Response>;
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const as = async (email: string) => {
   session.user = await sessionUser(t.db, seed.users[email]!);
@@ -38,8 +39,8 @@ const recently = () => toLocalDateTimeText(new Date(Date.now() - 10 * 60_000), Z
 
 beforeAll(async () => {
   process.env.UNIT_TIME_ZONE = ZONE;
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, SEEDED_AT);
+  t = await useDemoDatabase(SEEDED_AT);
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 beforeEach(() => as("quality@larkmoor.example"));

@@ -1,16 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as getOrderRoute } from "@/app/api/orders/[id]/route";
 import { GET as listOrdersRoute } from "@/app/api/orders/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { applyCycleEvent } from "@/lib/cycles/store";
 import { AppError } from "@/lib/errors";
 import { bookingSchema } from "@/lib/orders/schemas";
 import { amendPickup, bookPickup, cancelPickup, getOrderDetail } from "@/lib/orders/service";
 import { requestFromStore, storedSets } from "@/lib/orders/store-requests";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 // Tuesday 1 December 2026, 10:00 in London (GMT): the demo's contracts are in force.
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -20,8 +21,8 @@ const TABLES = ["orders", "cycles", "scan_events", "order_extras", "outbox", "au
 let theatreSets: { id: number; serial: string }[] = [];
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   theatreSets = await t.db
     .selectFrom("sets")
     .innerJoin("set_types", "set_types.id", "sets.set_type_id")

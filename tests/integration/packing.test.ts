@@ -1,9 +1,8 @@
-import { inflateSync } from "node:zlib";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as labelPdfRoute } from "@/app/api/sets/[id]/label.pdf/route";
 import { POST as packRoute } from "@/app/api/stations/packing/pack/route";
 import { POST as scanRoute } from "@/app/api/stations/packing/scan/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import { applyCycleEvent, type Station } from "@/lib/cycles/store";
 import type { CycleEvent } from "@/lib/cycles/lifecycle";
@@ -14,10 +13,12 @@ import { bookPickup, getOrderDetail } from "@/lib/orders/service";
 import type { PackRequest } from "@/lib/packing/schemas";
 import type { PackingSetView, PackResult } from "@/lib/packing/service";
 import { getSetLabel } from "@/lib/sets/label";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
+import { pdfText } from "../support/pdf-text";
 import { params, requestAs, sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 // Tuesday 1 December 2026, 10:00 in London (GMT): the demo's contracts are in force.
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -39,8 +40,8 @@ let candidates: Candidate[] = [];
 const used = new Set<number>();
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, SEEDED_AT);
+  t = await useDemoDatabase(SEEDED_AT);
+  seed = t.seed;
   candidates = await t.db
     .selectFrom("sets")
     .innerJoin("set_types", "set_types.id", "sets.set_type_id")
@@ -153,32 +154,10 @@ const cycleRow = (id: number) => t.db.selectFrom("cycles").selectAll().where("id
 const packRecords = (cycleId: number) => t.db.selectFrom("pack_records").selectAll().where("cycle_id", "=", cycleId).orderBy("id").execute();
 const events = (cycleId: number) => t.db.selectFrom("scan_events").selectAll().where("cycle_id", "=", cycleId).orderBy("id").execute();
 
-// Where PDF's WinAnsiEncoding differs from Latin-1 (PDF 32000-1, Annex D), for the characters we print.
-const WIN_ANSI: Record<number, string> = { 0x96: "–", 0x97: "—", 0x95: "•" };
-
-/** The text drawn in a PDF made by pdfkit: its content streams inflated, the TJ strings decoded. */
-function pdfText(bytes: Buffer): string {
-  const raw = bytes.toString("latin1");
-  const texts: string[] = [];
-  for (const match of raw.matchAll(/stream\r?\n([\s\S]*?)\r?\nendstream/g)) {
-    let content: string;
-    try {
-      content = inflateSync(Buffer.from(match[1]!, "latin1")).toString("latin1");
-    } catch {
-      continue;
-    }
-    for (const tj of content.matchAll(/\[([^\]]*)\]\s*TJ/g)) {
-      const hex = [...tj[1]!.matchAll(/<([0-9a-fA-F]*)>/g)].map((m) => m[1]).join("");
-      texts.push([...Buffer.from(hex, "hex")].map((byte) => WIN_ANSI[byte] ?? String.fromCharCode(byte)).join(""));
-    }
-  }
-  return texts.join("\n");
-}
-
 async function labelPdf(setId: number, query = "") {
   const res = await labelPdfRoute(await requestAs(user(TECH), `/api/sets/${setId}/label.pdf${query}`), params({ id: String(setId) }));
   expect(res.status).toBe(200);
-  return pdfText(Buffer.from(await res.arrayBuffer()));
+  return pdfText(new Uint8Array(await res.arrayBuffer()));
 }
 
 describe("the demo's packing history", () => {

@@ -9,7 +9,7 @@ import { GET as headersCsvRoute } from "@/app/api/billing/invoices/headers.csv/r
 import { GET as listRoute } from "@/app/api/billing/invoices/route";
 import { GET as summaryRoute } from "@/app/api/billing/invoices/summary/route";
 import { POST as webhookRoute } from "@/app/api/webhooks/stripe/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
 import { createCreditNote } from "@/lib/billing/credit-notes";
 import { ageBucketOf, getInvoiceDetail, type InvoiceListRow } from "@/lib/billing/invoices";
@@ -19,7 +19,8 @@ import { runDueJobs } from "@/lib/jobs/scheduler";
 import { resetServerEnvCache } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { resetStripeClient, stripeClient } from "@/lib/stripe";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // Paying online, credit notes, closing invoices and reminders against the seeded demo, with the
@@ -30,7 +31,7 @@ const SECRET = "whsec_test_steamlane_payments_0123456789";
 const SEEDED_AT = new Date("2026-12-01T08:00:00Z");
 const TABLES = ["invoices", "credit_notes", "payments", "outbox", "audit_log"] as const;
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let fake: FakeStripe;
 let bridge: { url: string; close(): Promise<void> };
@@ -89,8 +90,8 @@ const payByCard = async (stripeInvoiceId: string, number: string) => {
 };
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, SEEDED_AT);
+  t = await useDemoDatabase(SEEDED_AT);
+  seed = t.seed;
   bridge = await startBridge();
   fake = await startFakeStripe({ port: 0, webhookUrl: bridge.url, webhookSecret: SECRET, defaultCurrency: "gbp", webhookRetry: { attempts: 2, baseDelayMs: 20 }, log: () => {} });
   Object.assign(process.env, {

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vites
 import { POST as uploadRoute } from "@/app/api/files/route";
 import { GET as getProblemRoute } from "@/app/api/problems/[id]/route";
 import { GET as listProblemsRoute } from "@/app/api/problems/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { DEMO_PROBLEMS } from "@/db/seed/problems";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { applyCycleEvent, type Station } from "@/lib/cycles/store";
@@ -13,7 +13,8 @@ import { bookPickup, getOrderDetail } from "@/lib/orders/service";
 import { answerProblemAction, reportProblemAction } from "@/lib/problems/actions";
 import { answerProblemSchema, listProblemsQuerySchema, reportProblemSchema } from "@/lib/problems/schemas";
 import { answerProblem, listOrderProblems, listProblems, reportProblem } from "@/lib/problems/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionCookie, sessionUser } from "../support/session";
 
 // Reporting problems with delivered sets and answering them, through the server actions and route
@@ -25,7 +26,7 @@ vi.mock("@/lib/auth/current-user", async (importOriginal) => ({
   getCurrentUser: async () => session.user,
 }));
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 // Tuesday 1 December 2026, 10:00 in London: the demo's contracts are in force.
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -38,8 +39,8 @@ const userId = (email: string) => seed.users[email]!;
 const as = (email: string) => sessionUser(t.db, userId(email));
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 beforeEach(() => {

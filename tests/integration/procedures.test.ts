@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as checkRoute } from "@/app/api/procedures/check/route";
 import { GET as listUsesRoute } from "@/app/api/procedures/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import type { Kysely } from "kysely";
 import { type CycleEvent } from "@/lib/cycles/lifecycle";
@@ -12,10 +12,11 @@ import { bookPickup } from "@/lib/orders/service";
 import { caseReferenceSchema, recordUseSchema, theatreSchema } from "@/lib/procedures/schemas";
 import { createSets } from "@/lib/sets/service";
 import { checkScannedSet, proceduresForCycles, recordProcedureUse } from "@/lib/procedures/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { requestAs, sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 // Tuesday 1 December 2026, 10:00 in London (GMT): the demo's contracts are in force.
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -75,8 +76,8 @@ async function freshSets(siteName: string, count: number) {
 }
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   theatreSets = await freshSets(THEATRES, 12);
   dayCaseSets = await freshSets(DAY_CASE, 2);
   otterwickSets = await freshSets("Otterwick Day Surgery Centre", 2);

@@ -5,13 +5,13 @@ import { POST as failRoute } from "@/app/api/loads/[id]/fail/route";
 import { GET as csvRoute } from "@/app/api/recalls/[id]/report.csv/route";
 import { GET as pdfRoute } from "@/app/api/recalls/[id]/report.pdf/route";
 import { GET as recallRoute } from "@/app/api/recalls/[id]/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { applyCycleEvent } from "@/lib/cycles/store";
 import { recordMachineTest } from "@/lib/sterilising/machine-tests";
 import { addToLoad, finishLoad, openLoad, releaseLoad, startLoad } from "@/lib/sterilising/loads";
 import { failLoad, getRecall, listRecalls, type RecallView, returnRecalledSet } from "@/lib/sterilising/recalls";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { type FreeSet, freeSteamSets, makeSteriliser, packedCycle, steamCsv } from "../support/loads";
 import { params, requestAs, sessionUser } from "../support/session";
 
@@ -19,7 +19,7 @@ import { params, requestAs, sessionUser } from "../support/session";
 // procedures that used them, one e-mail per affected customer is queued, and each customer sees
 // only its own sets. Failing a load not yet released sends its sets back to washing instead.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let free: FreeSet[] = [];
 let tech: SessionUser;
@@ -57,8 +57,8 @@ const QMH = () => seed.organisations["QMH"]!;
 const MDP = () => seed.organisations["MDP"]!;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   tech = await sessionUser(t.db, seed.users["tech@larkmoor.example"]!);
   quality = await sessionUser(t.db, seed.users["quality@larkmoor.example"]!);
   free = await freeSteamSets(t.db);

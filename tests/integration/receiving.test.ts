@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { POST as finishRoute } from "@/app/api/stations/receiving/finish/route";
 import { POST as heavySoilRoute } from "@/app/api/stations/receiving/heavy-soil/route";
 import { POST as scanRoute } from "@/app/api/stations/receiving/scan/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import { applyCycleEvent } from "@/lib/cycles/store";
 import { AppError } from "@/lib/errors";
@@ -11,13 +11,14 @@ import { bookingSchema } from "@/lib/orders/schemas";
 import { bookPickup, getOrderDetail } from "@/lib/orders/service";
 import { finishReceiving, listOrderNotices, receiveScan, setHeavySoil } from "@/lib/stations/receiving";
 import { type ReceivingAnswer, routeAfterReceiving } from "@/lib/stations/receiving-shared";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // The receiving station: booked and collected sets, sets that came without a booking, finishing
 // an order, heavy soil, where a set goes next, who may use it, and what bad scans answer.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 // Tuesday 1 December 2026, 10:00 in London (GMT): the demo's contracts are in force.
 const NOW = new Date("2026-12-01T10:00:00Z");
@@ -30,8 +31,8 @@ const as = (email: string) => sessionUser(t.db, user(email));
 const TECH = "tech@larkmoor.example";
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

@@ -1,14 +1,15 @@
 import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { POST as releaseRoute } from "@/app/api/loads/[id]/release/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { serverEnv } from "@/lib/env";
 import { getSetLabel } from "@/lib/sets/label";
 import { recordMachineTest, unitDayOf } from "@/lib/sterilising/machine-tests";
 import { addToLoad, finishLoad, getLoadDetail, openLoad, recordBiResult, releaseLoad, startLoad } from "@/lib/sterilising/loads";
 import { expiryDate } from "@/lib/sterilising/shelf-life";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { type FreeSet, freeSteamSets, makeSteriliser, packedCycle, steamCsv } from "../support/loads";
 import { params, requestAs, sessionUser } from "../support/session";
 
@@ -17,7 +18,7 @@ import { params, requestAs, sessionUser } from "../support/session";
 // release moves every set with "release" and gives each its expiry date from the shelf-life
 // rules, which the set's label then shows with the load number.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let free: FreeSet[] = [];
 let tech: SessionUser;
@@ -54,8 +55,8 @@ async function finishedLoad(sets: FreeSet[], opts: { airTest?: boolean; bi?: "pe
 }
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   tech = await sessionUser(t.db, seed.users["tech@larkmoor.example"]!);
   quality = await sessionUser(t.db, seed.users["quality@larkmoor.example"]!);
   free = await freeSteamSets(t.db);

@@ -5,20 +5,20 @@ import { GET as clinicRevenueRoute } from "@/app/api/reports/clinic/revenue/rout
 import { GET as unitOnTimeRoute } from "@/app/api/reports/on-time/route";
 import { GET as unitReceivablesRoute } from "@/app/api/reports/receivables/route";
 import { GET as unitVolumesRoute } from "@/app/api/reports/volumes/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { previewRun } from "@/lib/billing/run";
 import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { onTimeVerdicts, resolveFilters, reportQuerySchema } from "@/lib/reports/service";
 import type { Report } from "@/lib/reports/types";
 import { addCustomer, type TestCustomer } from "../unit/billing/db-fixtures";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // The reports against the demo database: the on-time figure, the invoice's turnaround credit and
 // the customer's own view agree cycle for cycle; month and week boundaries in the unit's time
 // zone; the tenant scope; the CSV is the table.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let brack: TestCustomer;
 let brackManager: number;
@@ -80,8 +80,8 @@ const json = async (route: typeof unitOnTimeRoute, userId: number, url: string) 
 const table = (report: Report, key: string) => report.tables.find((x) => x.key === key)!;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   // An invented customer on a 24/7 clock with a 24-hour standard turnaround; its name starts
   // with "=", as a spreadsheet formula would.
   brack = await addCustomer(t.db, {

@@ -8,12 +8,13 @@ import { POST as completeRoute } from "@/app/api/runs/[runId]/stops/[stopId]/com
 import { POST as scanRoute } from "@/app/api/runs/[runId]/stops/[stopId]/scans/route";
 import { GET as dispatchBoardRoute } from "@/app/api/stations/dispatch/route";
 import { POST as dispatchScanRoute } from "@/app/api/stations/dispatch/scan/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import { serverEnv } from "@/lib/env";
 import type { CompleteStopResult, RunSheet, StopScanResult } from "@/lib/runs/shared";
 import type { DispatchAnswer, DispatchBoard } from "@/lib/stations/dispatch-shared";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { freeSetsAtOneSite, pickupInState, publishTodaysRun } from "../support/run-sheets";
 import { params, requestAs } from "../support/session";
 
@@ -21,7 +22,7 @@ import { params, requestAs } from "../support/session";
 // scenario: scans at a stop, proof of delivery, stops that could not be served, who may see a
 // run, and the dispatch station's refusals.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const ORIGIN = "http://localhost:3000";
 const DRIVER = "driver@larkmoor.example";
@@ -58,8 +59,8 @@ async function states(cycleIds: number[]): Promise<string[]> {
 
 // The whole demo scenario takes a while to write on a busy machine.
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 }, 240_000);
 afterAll(() => t.cleanup());
 

@@ -1,35 +1,34 @@
 import fs from "node:fs";
 import path from "node:path";
-import { sql } from "kysely";
 import { encode } from "next-auth/jwt";
 import { NextRequest } from "next/server";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as listSitesRoute } from "@/app/api/sites/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { authOptions, SESSION_MAX_AGE_SECONDS } from "@/lib/auth/options";
 import { declaredPermission } from "@/lib/http/entry-points";
 import { saveUpload } from "@/lib/storage/files";
 import { revokeSessions } from "@/lib/users/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows, writeCounter } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { HTTP_METHODS, routeModules } from "../support/entry-points";
 import { params, requestAs } from "../support/session";
 
 // Security basics below the browser: cross-site writes refused on every state-changing route
 // handler, sessions that expire and can be revoked, cookie flags, uploads checked by content.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
+  totalChanges = await writeCounter(t.db);
 }, 300_000);
 afterAll(() => t.cleanup());
 
-async function totalChanges(): Promise<number> {
-  const { rows } = await sql<{ n: number }>`select total_changes() as n`.execute(t.db);
-  return Number(rows[0]!.n);
-}
+/** Rows written so far (tests/support/db.ts). */
+let totalChanges: () => Promise<number>;
 
 describe("cross-site request forgery", () => {
   it("refuses a foreign Origin, and a missing one, on every state-changing route handler, before reading the body", async () => {

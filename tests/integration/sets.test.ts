@@ -4,17 +4,18 @@ import { GET as labelSvgRoute } from "@/app/api/sets/[id]/label.svg/route";
 import { GET as getSetRoute } from "@/app/api/sets/[id]/route";
 import { GET as lookupRoute } from "@/app/api/sets/lookup/route";
 import { GET as listSetsRoute } from "@/app/api/sets/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { AppError } from "@/lib/errors";
 import { encodeElementString } from "@/lib/labels/gs1";
 import { setGiai } from "@/lib/sets/identifiers";
 import { createSetsSchema } from "@/lib/sets/schemas";
 import { changeSetStatus, createSets, findSetByScan, getSet, listSetAuditEntries, listSets } from "@/lib/sets/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let admin: SessionUser;
 const types: Record<string, number> = {};
@@ -66,8 +67,8 @@ async function expectAppError(promise: Promise<unknown>, code: string, message?:
 }
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
   admin = await sessionUser(t.db, user("admin@larkmoor.example"));
   types.qmh = await addSetType("QMH", "ZZ-TEST-BASIC", [
     ["Mayo scissors, curved 170 mm", 1],

@@ -3,16 +3,16 @@ import { GET as getSiteRoute } from "@/app/api/sites/[id]/route";
 import { GET as listSitesRoute } from "@/app/api/sites/route";
 import { GET as getUserRoute } from "@/app/api/users/[id]/route";
 import { GET as listUsersRoute } from "@/app/api/users/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { params, requestAs } from "../support/session";
-import { type TestDatabase, useFreshDatabase } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

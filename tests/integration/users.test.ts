@@ -1,23 +1,24 @@
 import { addHours, addMinutes } from "date-fns";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { DEMO_PASSWORD } from "@/db/seed/people";
 import { loadSessionUser } from "@/lib/auth/session-user";
 import { verifyCredentials } from "@/lib/auth/sign-in";
 import { AppError } from "@/lib/errors";
 import { inviteUserSchema } from "@/lib/users/schemas";
 import { acceptInvitation, describeInvitation, inviteUser, setUserStatus } from "@/lib/users/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const mail = { appUrl: "http://localhost:3000", timeZone: "Europe/London" };
 const TABLES = ["users", "invitations", "outbox", "audit_log"] as const;
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db);
+  t = await useDemoDatabase();
+  seed = t.seed;
 });
 afterAll(() => t.cleanup());
 

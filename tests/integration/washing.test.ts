@@ -16,7 +16,7 @@ import { POST as scanRoute } from "@/app/api/stations/washing/batches/[id]/scan/
 import { POST as startRoute } from "@/app/api/stations/washing/batches/[id]/start/route";
 import { POST as openRoute } from "@/app/api/stations/washing/batches/route";
 import { GET as stationRoute } from "@/app/api/stations/washing/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import { parseFlags } from "@/lib/catalogue/set-types";
 import { recordToCsv } from "@/lib/cycles/csv";
@@ -27,14 +27,15 @@ import { checkWasherBatch } from "@/lib/cycles/washer";
 import { serverEnv } from "@/lib/env";
 import { batchNumberPrefix } from "@/lib/washing/numbering";
 import type { BatchView } from "@/lib/washing/service";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs } from "../support/session";
 
 // The washing and manual-washing stations through their route handlers, on the seeded demo:
 // opening, loading, starting, closing (passing, failing, unreadable records), aborting, the
 // refusals, washing by hand, the batch list and who may do what.
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 const ORIGIN = "http://localhost:3000";
 const TABLES = ["washer_batches", "washer_batch_items", "scan_events", "cycles", "files", "audit_log"] as const;
@@ -55,8 +56,8 @@ const user = (email: string) => seed.users[email]!;
 const tech = () => user("tech@larkmoor.example");
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, new Date("2026-12-01T08:00:00Z"));
+  t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
+  seed = t.seed;
   // Sets with no open cycle, small enough for a washer's rack, in serial order.
   const rows = await t.db
     .selectFrom("sets")

@@ -3,13 +3,14 @@ import type { AddressInfo } from "node:net";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { POST as webhookRoute } from "@/app/api/webhooks/stripe/route";
-import { type SeedResult, seedDemo } from "@/db/seed/demo";
+import type { SeedResult } from "@/db/seed/demo";
 import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
 import { ensureStripeInvoice } from "@/lib/billing/payments";
 import { mayMove } from "@/lib/billing/webhooks";
 import { resetServerEnvCache } from "@/lib/env";
 import { resetStripeClient, stripeClient } from "@/lib/stripe";
-import { countRows, type TestDatabase, useFreshDatabase } from "../support/db";
+import { countRows } from "../support/db";
+import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 
 // The payment service's webhook, end to end through the real SDK and the local fake: the fake
 // posts signed events to a small server that hands them to the route handler, exactly as the
@@ -19,7 +20,7 @@ const SECRET = "whsec_test_steamlane_webhooks_0123456789";
 const SEEDED_AT = new Date("2026-12-01T08:00:00Z");
 const TABLES = ["webhook_events", "invoices", "payments", "outbox", "audit_log"] as const;
 
-let t: TestDatabase;
+let t: DemoDatabase;
 let seed: SeedResult;
 let fake: FakeStripe;
 let bridge: { url: string; close(): Promise<void> };
@@ -81,8 +82,8 @@ async function redeliver(eventId: string) {
 }
 
 beforeAll(async () => {
-  t = await useFreshDatabase();
-  seed = await seedDemo(t.db, SEEDED_AT);
+  t = await useDemoDatabase(SEEDED_AT);
+  seed = t.seed;
   bridge = await startBridge();
   fake = await startFakeStripe({
     port: 0,

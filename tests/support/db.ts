@@ -2,12 +2,12 @@ import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import type { Kysely } from "kysely";
+import { type Kysely, sql } from "kysely";
 import { Client } from "pg";
 import { closeDb, getDb } from "@/db";
 import type { Database } from "@/db/schema";
 import { migrateToLatest } from "@/db/migrator";
-import { resetServerEnvCache } from "@/lib/env";
+import { resetServerEnvCache, serverEnv } from "@/lib/env";
 
 // A freshly migrated database for one test file, installed as the process's database so that
 // route handlers and actions under test use it: a SQLite file by default, or, with
@@ -31,7 +31,7 @@ export function testDatabaseKind(): "sqlite" | "postgres" {
 }
 
 /** Runs one statement on the server's maintenance database (CREATE / DROP DATABASE). */
-async function onServer(statement: string): Promise<void> {
+export async function onPostgresServer(statement: string): Promise<void> {
   const client = new Client({ connectionString: process.env.TEST_PG_URL ?? DEFAULT_TEST_PG_URL });
   try {
     await client.connect();
@@ -50,24 +50,41 @@ async function onServer(statement: string): Promise<void> {
  * Creates an empty PostgreSQL database for a test and returns its address. Its text is ordered
  * by code point (locale C.UTF-8), the way SQLite compares text.
  */
-async function createPostgresDatabase(): Promise<{ url: string; name: string }> {
+async function createPostgresDatabase(template = "template0"): Promise<{ url: string; name: string }> {
   const name = `steamlane_t_${randomBytes(6).toString("hex")}`;
-  await onServer(`create database ${name} template template0 encoding 'UTF8' locale 'C.UTF-8'`);
+  await onPostgresServer(`create database ${name} template ${template} encoding 'UTF8' locale 'C.UTF-8'`);
   const url = new URL(process.env.TEST_PG_URL ?? DEFAULT_TEST_PG_URL);
   url.pathname = `/${name}`;
   return { url: url.toString(), name };
 }
 
-export async function useFreshDatabase(): Promise<TestDatabase> {
+/** A freshly migrated, empty database of the suite's kind, installed as the process's database. */
+export function useFreshDatabase(): Promise<TestDatabase> {
+  return installTestDatabase({});
+}
+
+export interface DatabaseCopy {
+  /** A SQLite file to start from (copied), instead of an empty one. */
+  sqliteFrom?: string;
+  /** A PostgreSQL database to copy (CREATE DATABASE … TEMPLATE), instead of an empty one. */
+  postgresTemplate?: string;
+  /** An uploads folder to copy into the test's own. */
+  uploadsFrom?: string;
+}
+
+/** Installs a test database, empty or copied from a template (tests/support/demo-database.ts), and migrates it. */
+export async function installTestDatabase(copy: DatabaseCopy): Promise<TestDatabase> {
   const kind = testDatabaseKind();
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "steamlane-test-"));
   process.env.STEAMLANE_DATA_DIR = dir;
   delete process.env.DATABASE_PATH;
   delete process.env.DATABASE_URL;
   process.env.NEXTAUTH_SECRET ??= "test-secret-of-sufficient-length-0123456789";
-  const postgres = kind === "postgres" ? await createPostgresDatabase() : null;
+  const postgres = kind === "postgres" ? await createPostgresDatabase(copy.postgresTemplate) : null;
   if (postgres) process.env.DATABASE_URL = postgres.url;
   resetServerEnvCache();
+  if (kind === "sqlite" && copy.sqliteFrom) fs.copyFileSync(copy.sqliteFrom, serverEnv().databasePath);
+  if (copy.uploadsFrom && fs.existsSync(copy.uploadsFrom)) fs.cpSync(copy.uploadsFrom, serverEnv().uploadsDir, { recursive: true });
   await closeDb();
   const db = getDb();
   await migrateToLatest(db);
@@ -77,7 +94,7 @@ export async function useFreshDatabase(): Promise<TestDatabase> {
     async cleanup() {
       await closeDb();
       if (postgres) {
-        await onServer(`drop database if exists ${postgres.name} with (force)`);
+        await onPostgresServer(`drop database if exists ${postgres.name} with (force)`);
         delete process.env.DATABASE_URL;
         resetServerEnvCache();
       }
@@ -94,4 +111,27 @@ export async function countRows(db: Kysely<Database>, tables: (keyof Database)[]
     counts[table] = Number(row.n);
   }
   return counts;
+}
+
+/**
+ * A count of the rows written so far, to prove that a refused request wrote nothing: SQLite's
+ * total_changes() on the one connection; on PostgreSQL, a counter that a row trigger on every
+ * table bumps (installed here; committed writes only, which is what a refusal must not leave).
+ */
+export async function writeCounter(db: Kysely<Database>): Promise<() => Promise<number>> {
+  if (testDatabaseKind() === "sqlite") {
+    return async () => Number((await sql<{ n: number }>`select total_changes() as n`.execute(db)).rows[0]!.n);
+  }
+  await sql`create table test_rows_written (n bigint not null)`.execute(db);
+  await sql`insert into test_rows_written values (0)`.execute(db);
+  await sql`
+    create function test_count_write() returns trigger language plpgsql as $$
+    begin update test_rows_written set n = n + 1; return null; end $$`.execute(db);
+  const { rows } = await sql<{ name: string }>`
+    select tablename as name from pg_tables
+    where schemaname = 'public' and tablename not like 'kysely_%' and tablename <> 'test_rows_written'`.execute(db);
+  for (const { name } of rows) {
+    await sql`create trigger test_count_write after insert or update or delete on ${sql.table(name)} for each row execute function test_count_write()`.execute(db);
+  }
+  return async () => Number((await sql<{ n: number }>`select n from test_rows_written`.execute(db)).rows[0]!.n);
 }
