@@ -17,6 +17,7 @@ import { enqueueMail } from "@/lib/mail/outbox";
 import { missingSetMail, type ReceivingNoticeMailContext, unexpectedSetMail } from "@/lib/mail/receiving-templates";
 import { recipientsFor } from "@/lib/orders/notifications";
 import { getSet, type SetView } from "@/lib/sets/service";
+import { markReturned } from "@/lib/sterilising/recalls";
 import { promisedReturn } from "@/lib/turnaround";
 import { identifyAtStation, type OpenCycleView, type SetAtStation } from "./identify";
 import {
@@ -105,6 +106,14 @@ export async function receiveScan(db: Kysely<Database>, user: SessionUser, input
       return answerFor(trx, user, cycle.id, "received", { duplicate: false, now, warnings, known: found });
     }
     if (cycle.state === "recalled") {
+      const recalls = await trx
+        .selectFrom("recall_items")
+        .innerJoin("recalls", "recalls.id", "recall_items.recall_id")
+        .select("recalls.number")
+        .where("recall_items.cycle_id", "=", cycle.id)
+        .where("recall_items.returned_at", "is", null)
+        .orderBy("recalls.number")
+        .execute();
       await applyCycleEvent(trx, {
         cycleId: cycle.id,
         event: "return_recalled",
@@ -113,7 +122,10 @@ export async function receiveScan(db: Kysely<Database>, user: SessionUser, input
         at: now,
         clientEventId: input.clientEventId,
       });
-      return answerFor(trx, user, cycle.id, "returned", { duplicate: false, now, known: found });
+      // The recall's list of sets still out counts this one as back (and closes when none is left).
+      await markReturned(trx, cycle.id, user.id, now);
+      const warnings = recalls.map((r) => `Recall ${r.number}: this set is now recorded as back at the unit. Wash it again before it is packed.`);
+      return answerFor(trx, user, cycle.id, "returned", { duplicate: false, now, warnings, known: found });
     }
     throw await alreadyReceived(trx, set, type.name, cycle, now);
   });

@@ -8,6 +8,7 @@ import { GET as recallRoute } from "@/app/api/recalls/[id]/route";
 import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { applyCycleEvent } from "@/lib/cycles/store";
+import { receiveScan } from "@/lib/stations/receiving";
 import { recordMachineTest } from "@/lib/sterilising/machine-tests";
 import { addToLoad, finishLoad, openLoad, releaseLoad, startLoad } from "@/lib/sterilising/loads";
 import { failLoad, getRecall, listRecalls, type RecallView, returnRecalledSet } from "@/lib/sterilising/recalls";
@@ -147,8 +148,20 @@ describe("failing a released load", () => {
     expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe("%PDF-");
   });
 
+  it("counts a recalled set scanned in at receiving as back, and says which recall it was", async () => {
+    const recall = await t.db.selectFrom("recalls").select("number").where("id", "=", recallId).executeTakeFirstOrThrow();
+    const answer = await receiveScan(t.db, tech, { code: sets[2]!.serial, clientEventId: randomUUID() });
+    expect(answer).toMatchObject({ outcome: "returned", cycle: { state: "reprocess" } });
+    expect(answer.warnings).toEqual([expect.stringContaining(`Recall ${recall.number}`)]);
+    const item = await t.db.selectFrom("recall_items").select(["returned_at", "returned_by"]).where("recall_id", "=", recallId).where("cycle_id", "=", cycles[2]!).executeTakeFirstOrThrow();
+    expect(item.returned_by).toBe(tech.id);
+    expect(item.returned_at).not.toBeNull();
+    expect((await listRecalls(t.db, quality)).find((r) => r.id === recallId)?.outstanding).toBe(2);
+  });
+
   it("tracks each set until it is back, then closes the recall", async () => {
-    for (const cycleId of cycles) await returnRecalledSet(t.db, quality, recallId, cycleId);
+    await expect(returnRecalledSet(t.db, quality, recallId, cycles[2]!)).rejects.toThrow(/already recorded as back/);
+    for (const cycleId of cycles.slice(0, 2)) await returnRecalledSet(t.db, quality, recallId, cycleId);
     const states = await t.db.selectFrom("cycles").select("state").where("id", "in", cycles).execute();
     expect(states.every((s) => s.state === "reprocess")).toBe(true);
     const recall = await t.db.selectFrom("recalls").select("status").where("id", "=", recallId).executeTakeFirstOrThrow();
