@@ -30,9 +30,11 @@ export function PlanActions({ day, seed, hasPlan, status }: { day: string; seed:
         toast.error(result.error.message);
         return;
       }
+      const { notifiedStops, withdrawnStops, messages } = result.data;
+      const withdrawnText = withdrawnStops > 0 ? ` ${withdrawnStops} site(s) told their visit is off the runs.` : "";
       toast.success(
-        result.data.messages > 0
-          ? `Published. ${result.data.notifiedStops} site(s) told their expected time (${result.data.messages} e-mail(s)).`
+        messages > 0
+          ? `Published. ${notifiedStops} site(s) told their expected time.${withdrawnText} ${messages} e-mail(s) queued.`
           : "Published. No site's time changed, so no e-mail was sent.",
       );
       router.refresh();

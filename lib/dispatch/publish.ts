@@ -8,13 +8,13 @@ import type { SessionUser } from "@/lib/auth/session-user";
 import { serverEnv } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { formatDate } from "@/lib/format";
-import { expectedVisitMail } from "@/lib/mail/dispatch-templates";
+import { expectedVisitMail, visitWithdrawnMail } from "@/lib/mail/dispatch-templates";
 import { enqueueMail } from "@/lib/mail/outbox";
 import { clockText, planClock } from "./stops";
 
 // Publishing a day's plan: the drivers' runs become their run sheets, and every customer site
 // with a stop is told the van's expected time, once; a later publish tells a site again only
-// when its time moved.
+// when its time moved, and tells it when a visit it was told about is no longer on any run.
 //
 // Decisions:
 // - The time sent is the planned start of service rounded to 5 minutes, with a half-hour range
@@ -56,6 +56,8 @@ export interface PublishResult {
   planId: number;
   /** Stops whose site was told a new or first time. */
   notifiedStops: number;
+  /** Stops the site had been told about that are no longer on any run: the site was told so. */
+  withdrawnStops: number;
   /** Messages queued in the outbox. */
   messages: number;
 }
@@ -90,17 +92,55 @@ export async function publishPlan(db: Kysely<Database>, user: SessionUser, day: 
     if (stops.length === 0) throw new AppError("conflict", "The plan has no stops on any run yet: plan the day first.");
     let notifiedStops = 0;
     let messages = 0;
+    const ordersOf = (stopId: number) =>
+      trx
+        .selectFrom("route_stop_orders")
+        .innerJoin("orders", "orders.id", "route_stop_orders.order_id")
+        .select(["orders.id", "orders.reference", "route_stop_orders.role"])
+        .where("route_stop_orders.stop_id", "=", stopId)
+        .orderBy("orders.reference")
+        .execute();
+
+    // Visits the site was told about that are now off every run: tell it, and forget the time sent.
+    const withdrawn = await trx
+      .selectFrom("route_stops")
+      .innerJoin("sites", "sites.id", "route_stops.site_id")
+      .select(["route_stops.id", "route_stops.notified_start_min", "sites.id as site_id", "sites.organisation_id", "sites.name as site_name", "sites.contact_email", "sites.contact_name"])
+      .where("route_stops.plan_id", "=", plan.id)
+      .where("route_stops.run_id", "is", null)
+      .where("route_stops.status", "=", "planned")
+      .where("route_stops.notified_start_min", "is not", null)
+      .orderBy("route_stops.id")
+      .execute();
+    for (const stop of withdrawn) {
+      const told = stop.notified_start_min!;
+      const orders = await ordersOf(stop.id);
+      const contacts = await siteContacts(trx, { id: stop.site_id, organisation_id: stop.organisation_id, contact_email: stop.contact_email, contact_name: stop.contact_name });
+      for (const contact of contacts) {
+        const mail = visitWithdrawnMail({
+          recipientName: contact.name,
+          siteName: stop.site_name,
+          dayText: formatDate(clock.instantOf(told), tz),
+          toldText: clockText(told, clock, tz),
+          collectReferences: orders.filter((o) => o.role === "collect").map((o) => o.reference),
+          deliverReferences: orders.filter((o) => o.role === "deliver").map((o) => o.reference),
+          link: `${env.APP_URL}/clinic/orders`,
+        });
+        await enqueueMail(
+          trx,
+          { template: "route.visit_withdrawn", to: contact.email, organisationId: stop.organisation_id, dedupeKey: `route-stop:${stop.id}:withdrawn:${told}:${contact.email.toLowerCase()}`, ...mail },
+          now,
+        );
+        messages++;
+      }
+      await trx.updateTable("route_stops").set({ notified_start_min: null, expected_time_notified_at: now.toISOString() }).where("id", "=", stop.id).execute();
+    }
+
     for (const stop of stops) {
       if (stop.planned_start_min === null) continue;
       const minute = notifiedMinute(stop.planned_start_min);
       if (stop.notified_start_min !== null && notifiedMinute(stop.notified_start_min) === minute) continue;
-      const orders = await trx
-        .selectFrom("route_stop_orders")
-        .innerJoin("orders", "orders.id", "route_stop_orders.order_id")
-        .select(["orders.id", "orders.reference", "route_stop_orders.role"])
-        .where("route_stop_orders.stop_id", "=", stop.id)
-        .orderBy("orders.reference")
-        .execute();
+      const orders = await ordersOf(stop.id);
       const deliverIds = orders.filter((o) => o.role === "deliver").map((o) => o.id);
       const deliverSets =
         deliverIds.length === 0
@@ -141,8 +181,8 @@ export async function publishPlan(db: Kysely<Database>, user: SessionUser, day: 
       notifiedStops++;
     }
     await trx.updateTable("route_plans").set({ status: "published", published_by: user.id, published_at: now.toISOString() }).where("id", "=", plan.id).execute();
-    await recordAudit(trx, { actorUserId: user.id, action: "route_plan.publish", entity: "route_plan", entityId: plan.id, details: { day, notifiedStops, messages } }, now);
-    return { planId: plan.id, notifiedStops, messages };
+    await recordAudit(trx, { actorUserId: user.id, action: "route_plan.publish", entity: "route_plan", entityId: plan.id, details: { day, notifiedStops, withdrawnStops: withdrawn.length, messages } }, now);
+    return { planId: plan.id, notifiedStops, withdrawnStops: withdrawn.length, messages };
   });
 }
 

@@ -166,6 +166,35 @@ describe("publishing", () => {
     expect(updates.length).toBe(result.messages);
   });
 
+  it("tells a site whose visit it was told about when the visit comes off the runs, once", async () => {
+    const user = await dispatcher();
+    const view = await getDispatchDay(t.db, day);
+    const stop = view.plan!.runs.flatMap((r) => r.stops).find((s) => s.orders.length > 0)!;
+    const told = await t.db.selectFrom("route_stops").select("notified_start_min").where("id", "=", stop.id).executeTakeFirstOrThrow();
+    expect(told.notified_start_min).not.toBeNull();
+    await moveStop(t.db, user, { stopId: stop.id, vanId: null, position: 0 });
+    const result = await publishPlan(t.db, user, day);
+    expect(result.withdrawnStops).toBe(1);
+    const mails = await t.db.selectFrom("outbox").select(["to_address", "subject", "text_body"]).where("template", "=", "route.visit_withdrawn").execute();
+    expect(mails.length).toBeGreaterThan(0);
+    expect(mails.every((m) => m.subject.startsWith(`The van will not come to ${stop.siteName}`))).toBe(true);
+    expect(mails[0]!.text_body).toContain(stop.orders[0]!.reference);
+    const users = await t.db.selectFrom("users").select(["email", "organisation_id"]).execute();
+    const site = await t.db.selectFrom("sites").select("organisation_id").where("name", "=", stop.siteName).executeTakeFirstOrThrow();
+    for (const m of mails) {
+      const owner = users.find((u) => u.email === m.to_address);
+      if (owner) expect(owner.organisation_id).toBe(site.organisation_id);
+    }
+    // Publishing again tells nobody twice; back on a run, the site hears its new time as a first notice.
+    expect((await publishPlan(t.db, user, day)).withdrawnStops).toBe(0);
+    expect(await t.db.selectFrom("outbox").select("id").where("template", "=", "route.visit_withdrawn").execute()).toHaveLength(mails.length);
+    const run = view.plan!.runs.find((r) => r.stops.some((s) => s.id === stop.id))!;
+    await moveStop(t.db, user, { stopId: stop.id, vanId: run.vanId, position: 1 });
+    const back = await publishPlan(t.db, user, day);
+    expect(back.notifiedStops).toBeGreaterThanOrEqual(1);
+    expect((await t.db.selectFrom("route_stops").select("notified_start_min").where("id", "=", stop.id).executeTakeFirstOrThrow()).notified_start_min).not.toBeNull();
+  });
+
   it("fills the out-for-delivery mail's expected time from the published plan", async () => {
     const view = await getDispatchDay(t.db, day);
     const stop = view.plan!.runs.flatMap((r) => r.stops).find((s) => s.orders.some((o) => o.role === "deliver"));
