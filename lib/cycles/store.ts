@@ -50,6 +50,8 @@ export interface OpenCycleInput {
   promisedAt: string | null;
   userId: number | null;
   at: Date;
+  /** Where the booking is recorded: "clinic" (an order), or "receiving" for a set that came without one. */
+  station?: Station;
 }
 
 /** Opens a cycle in "booked" for a set that has none open; the unique index is the backstop. */
@@ -92,7 +94,7 @@ export async function openCycle(db: Executor, input: OpenCycleInput): Promise<nu
       event: "book",
       from_state: null,
       to_state: "booked",
-      station: "clinic",
+      station: input.station ?? "clinic",
       user_id: input.userId,
       at: iso,
     })

@@ -189,6 +189,7 @@ async function receiveUnexpected(trx: Trx, user: SessionUser, found: SetAtStatio
     promisedAt: promisedAt?.toISOString() ?? null,
     userId: user.id,
     at: now,
+    station: "receiving",
   });
   await applyCycleEvent(trx, {
     cycleId,

@@ -211,10 +211,11 @@ describe("a set that came without a booking", () => {
 
       const cycle = await t.db.selectFrom("cycles").selectAll().where("id", "=", answer.cycle.id).executeTakeFirstOrThrow();
       expect(cycle).toMatchObject({ order_id: null, site_id: seed.sites[THEATRES], service_level: "standard", state: "received", received_at: at.toISOString() });
-      const events = await t.db.selectFrom("scan_events").select(["event", "to_state", "client_event_id", "details"]).where("cycle_id", "=", cycle.id).orderBy("id").execute();
-      expect(events.map((e) => [e.event, e.to_state])).toEqual([
-        ["book", "booked"],
-        ["receive", "received"],
+      const events = await t.db.selectFrom("scan_events").select(["event", "to_state", "station", "client_event_id", "details"]).where("cycle_id", "=", cycle.id).orderBy("id").execute();
+      // Nobody booked it at the clinic: both steps are recorded at receiving.
+      expect(events.map((e) => [e.event, e.to_state, e.station])).toEqual([
+        ["book", "booked", "receiving"],
+        ["receive", "received", "receiving"],
       ]);
       expect(events[1]!.client_event_id).toBe(clientEventId);
       expect(JSON.parse(events[1]!.details)).toEqual({ unexpected: true, withOrderId: orderId });
