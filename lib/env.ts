@@ -36,6 +36,15 @@ const serverEnvSchema = z.object({
   STRIPE_API_PROTOCOL: z.enum(["http", "https"]).optional(),
   /** The unit's own time zone: service calendars, dates on labels and invoices. */
   UNIT_TIME_ZONE: z.string().min(1).default("Europe/London"),
+  /**
+   * The GS1 Company Prefix new sets' GIAIs start with: the one the unit's GS1 member organisation
+   * allocated to it. The default is a number under GS1 Prefix 952, which GS1 keeps for
+   * demonstrations and examples. Sets keep the GIAI they were given.
+   */
+  GS1_COMPANY_PREFIX: z
+    .string()
+    .regex(/^\d{4,12}$/, "must be the unit's GS1 Company Prefix: 4 to 12 digits")
+    .default("9521234"),
 });
 
 export type ServerEnv = z.infer<typeof serverEnvSchema> & {

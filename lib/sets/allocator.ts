@@ -2,9 +2,10 @@ import "server-only";
 import { sql, type Transaction } from "kysely";
 import { uniqueViolation } from "@/db/dialect";
 import type { Database } from "@/db/schema";
+import { serverEnv } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { Gs1Error } from "@/lib/labels/gs1";
-import { formatSetSerial, parseSetSerial, SET_COMPANY_PREFIX, setGiai, shortCodeProblem } from "./identifiers";
+import { formatSetSerial, parseSetSerial, setGiai, shortCodeProblem } from "./identifiers";
 
 // Picks the next serials and GIAIs of a customer's sets, inside the transaction that inserts them.
 
@@ -46,7 +47,7 @@ export async function allocateSetIdentifiers(
   trx: Transaction<Database>,
   organisation: { id: number; shortCode: string },
   count: number,
-  companyPrefix: string = SET_COMPANY_PREFIX,
+  companyPrefix: string = serverEnv().GS1_COMPANY_PREFIX,
 ): Promise<SetIdentifier[]> {
   const problem = shortCodeProblem(organisation.shortCode);
   if (problem) throw new AppError("validation", `${problem} Change the customer's short code first.`);

@@ -8,9 +8,10 @@
 import { DEMO_COMPANY_PREFIX, formatHumanReadable, type Gs1ElementInput, makeSetGiai } from "@/lib/labels/gs1";
 
 /**
- * The GS1 Company Prefix the set GIAIs start with. The demo uses GS1's demonstration prefix
- * (GS1 Prefix 952 is reserved for demonstrations and examples); a unit going live replaces it
- * with the prefix its GS1 member organisation allocated to it.
+ * The GS1 Company Prefix of the demo's set GIAIs: GS1's demonstration range (GS1 Prefix 952 is
+ * reserved for demonstrations and examples). The running app gives new sets the prefix in the
+ * GS1_COMPANY_PREFIX setting (lib/env.ts, the same number by default); a unit going live sets
+ * it to the prefix its GS1 member organisation allocated to it.
  */
 export const SET_COMPANY_PREFIX = DEMO_COMPANY_PREFIX;
 

@@ -6,6 +6,7 @@ import { GET as lookupRoute } from "@/app/api/sets/lookup/route";
 import { GET as listSetsRoute } from "@/app/api/sets/route";
 import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
+import { resetServerEnvCache, serverEnv } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { encodeElementString } from "@/lib/labels/gs1";
 import { setGiai } from "@/lib/sets/identifiers";
@@ -128,6 +129,29 @@ describe("adding sets", () => {
       contentsInstruments: 4,
       humanReadable: `(8004)${created[0].giai}`,
     });
+  });
+
+  it("gives new sets the unit's own GS1 Company Prefix from the settings, and finds them by it", async () => {
+    process.env.GS1_COMPANY_PREFIX = "95299887";
+    resetServerEnvCache();
+    try {
+      const { sets: created } = await createSets(t.db, admin, { organisationId: seed.organisations.QMH!, setTypeId: types.qmh, homeSiteId: site(THEATRES), count: 2 });
+      for (const s of created) expect(s.giai).toBe(`95299887${s.serial.replace("-", "")}`);
+      const found = await findSetByScan(t.db, admin, encodeElementString([{ ai: "8004", value: created[0]!.giai }]));
+      expect(found?.id).toBe(created[0]!.id);
+    } finally {
+      delete process.env.GS1_COMPANY_PREFIX;
+      resetServerEnvCache();
+    }
+    // A setting that is not a GS1 Company Prefix is refused with what to fix.
+    process.env.GS1_COMPANY_PREFIX = "95-12";
+    resetServerEnvCache();
+    try {
+      expect(() => serverEnv()).toThrow(/GS1_COMPANY_PREFIX: must be the unit's GS1 Company Prefix: 4 to 12 digits/);
+    } finally {
+      delete process.env.GS1_COMPANY_PREFIX;
+      resetServerEnvCache();
+    }
   });
 
   it("continues the numbering, and two batches at the same moment never share a number", async () => {
