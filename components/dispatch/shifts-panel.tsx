@@ -137,7 +137,7 @@ export function ShiftsPanel({
       {canEdit && (
         <form onSubmit={handleSubmit(onSubmit)} noValidate className="space-y-3 rounded-lg border border-line bg-paper p-3" aria-label="Add or change a shift">
           <FormError message={formError} />
-          <fieldset disabled={isSubmitting} className="grid gap-3 sm:grid-cols-4">
+          <fieldset disabled={isSubmitting} className="grid gap-3 sm:grid-cols-2">
             <input type="hidden" {...register("day")} />
             <Field id="shift-driver" label="Driver" error={errors.userId?.message} className="sm:col-span-2">
               <Select id="shift-driver" aria-invalid={!!errors.userId} {...register("userId")}>

@@ -87,7 +87,10 @@ export function BookingForm({
 
   // The preview follows the form, a moment behind the typing.
   const deferred = useDeferredValue(JSON.stringify({ ...values, ignoreOrderId: orderId }));
-  const ready = !!values.collectionFrom && !!values.collectionUntil && !!values.neededBackBy && siteId > 0;
+  // Nothing to preview until there is something to collect and the times are in.
+  const chosen = setIds.length + (values.extras?.length ?? 0) > 0;
+  const timed = !!values.collectionFrom && !!values.collectionUntil && !!values.neededBackBy;
+  const ready = chosen && timed && siteId > 0;
   const preview = useQuery({
     queryKey: ["booking-preview", deferred],
     queryFn: () =>
@@ -267,7 +270,7 @@ export function BookingForm({
                     <span className="text-sm">
                       <span className="block font-medium">{level === "standard" ? "Standard" : "Express"}</span>
                       <span className="text-muted">
-                        {p?.plan ? `Back by ${formatDateTime(level === "standard" ? p.plan.earliestStandard : p.plan.earliestExpress, timeZone)}` : "Back time shown when the times are filled in"}
+                        {p?.plan ? `Back by ${formatDateTime(level === "standard" ? p.plan.earliestStandard : p.plan.earliestExpress, timeZone)}` : "Back time shown once the sets and times are in"}
                         {level === "express" && quote && quote.expressSurchargeMinor > 0 && ` · adds ${money(quote.expressSurchargeMinor, quote.currency)}`}
                       </span>
                     </span>
@@ -298,7 +301,11 @@ export function BookingForm({
               {setIds.length} {setIds.length === 1 ? "set" : "sets"}
               {values.extras?.length ? ` and ${values.extras.length} other ${values.extras.length === 1 ? "item" : "items"}` : ""}
             </p>
-            {!ready && <p className="text-muted">Fill in the times to see when the sets will be back.</p>}
+            {!ready && (
+              <p className="text-muted">
+                {!chosen ? "Choose the sets to collect to see when they will be back." : "Fill in the times to see when the sets will be back."}
+              </p>
+            )}
             {p?.plan && (
               <div className={`rounded-lg p-3 ${p.plan.meetsNeededBy ? "bg-ok-50" : "bg-warn-50"}`} data-testid="promised-return">
                 <p className="flex items-center gap-2 font-medium">

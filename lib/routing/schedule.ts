@@ -157,9 +157,19 @@ export function buildRoute(c: Compiled, v: number, seq: readonly number[]): Rout
   });
   const totals = legTotals(c, seq);
   const b = c.breaks[v];
+  // The van leaves no earlier than it must: waiting at the first stop becomes time at the unit,
+  // and every planned time after it stays as it is. (Not when the break comes before that stop:
+  // it may be the reason for the wait.)
+  let departMin = c.vStart[v];
+  const first = routeStops[0];
+  if (first && first.waitMin > EPS && sum.breakLeg !== 0) {
+    departMin += first.waitMin;
+    first.arrivalMin = first.startMin;
+    first.waitMin = 0;
+  }
   return {
     vehicleId: c.problem.vehicles[v].id,
-    departMin: c.vStart[v],
+    departMin,
     stops: routeStops,
     break:
       b && sum.breakLeg >= 0

@@ -32,10 +32,11 @@ describe("evaluateRoute", () => {
   it("computes arrival, waiting, service, loads and totals of a run (hand-computed)", () => {
     const { route, violations } = evaluateRoute(problem(), travel, "V1", ["A", "B"]);
     expect(violations).toEqual([]);
-    expect(route.departMin).toBe(480);
-    // A: arrive 480 + 10 = 490, wait for 500, leave 510. B: arrive 525, leave 530. Back 530 + 20 = 550.
+    // The shift starts at 480, but A opens at 500 and is 10 min away: the van leaves at 490 rather
+    // than waiting at A. A: arrive 500, leave 510. B: arrive 525, leave 530. Back 530 + 20 = 550.
+    expect(route.departMin).toBe(490);
     expect(route.stops).toEqual([
-      { stopId: "A", arrivalMin: 490, startMin: 500, waitMin: 10, departMin: 510, lateMin: 0, soiledLoad: 2, cleanLoad: 3 },
+      { stopId: "A", arrivalMin: 500, startMin: 500, waitMin: 0, departMin: 510, lateMin: 0, soiledLoad: 2, cleanLoad: 3 },
       { stopId: "B", arrivalMin: 525, startMin: 525, waitMin: 0, departMin: 530, lateMin: 0, soiledLoad: 2, cleanLoad: 0 },
     ]);
     expect(route).toMatchObject({ endMin: 550, driveMin: 45, distanceKm: 22.5, lateMin: 0, soiledCarts: 2, cleanCarts: 4, break: null });
