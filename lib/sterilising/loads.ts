@@ -13,6 +13,8 @@ import { checkSterilizerLoad } from "@/lib/cycles/sterilizer";
 import { serverEnv } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { describeRequirement, parseRequirement, type SteamCycleRequirement } from "@/lib/machines/requirements";
+import { listStationMachines, openLoadsByMachine } from "@/lib/machines/station-machines";
+import { requireUsableMachine } from "@/lib/machines/usable";
 import { identifyAtStation } from "@/lib/stations/identify";
 import { discardStoredFile, saveUpload } from "@/lib/storage/files";
 import { batchNumberPrefix, nextBatchNumber } from "@/lib/washing/numbering";
@@ -129,50 +131,13 @@ function readJson<T>(text: string | null, fallback: T): T {
 
 /** The active sterilisers with their steam programs, open load and today's air-removal test. */
 export async function listSterilisersForStation(db: Db, now = new Date()): Promise<SteriliserOption[]> {
-  const machines = await db
-    .selectFrom("machines")
-    .select(["id", "code", "name", "capacity_stu"])
-    .where("kind", "=", "steriliser")
-    .where("active", "=", 1)
-    .orderBy("code")
-    .execute();
-  if (machines.length === 0) return [];
-  const ids = machines.map((m) => m.id);
-  const programs = await db
-    .selectFrom("programs")
-    .select(["id", "machine_id", "code", "name", "requirement"])
-    .where("machine_id", "in", ids)
-    .where("active", "=", 1)
-    .orderBy("code")
-    .execute();
-  const open = await db
-    .selectFrom("steriliser_loads as l")
-    .select((eb) => [
-      "l.id",
-      "l.number",
-      "l.status",
-      "l.machine_id",
-      eb.selectFrom("load_items").whereRef("load_items.load_id", "=", "l.id").select(eb.fn.countAll<number>().as("n")).as("item_count"),
-    ])
-    .where("l.machine_id", "in", ids)
-    .where("l.status", "in", OPEN)
-    .execute();
+  const machines = await listStationMachines(db, "steriliser", steamRequirementOf);
+  const open = await openLoadsByMachine(db, machines.map((m) => m.id));
   const today = unitDayOf(now);
   const out: SteriliserOption[] = [];
   for (const m of machines) {
-    const load = open.find((l) => l.machine_id === m.id);
     const test = await latestTest(db, m.id, "air_removal", today);
-    out.push({
-      id: m.id,
-      code: m.code,
-      name: m.name,
-      capacityStu: m.capacity_stu,
-      programs: programs
-        .filter((p) => p.machine_id === m.id && steamRequirementOf(p.requirement))
-        .map((p) => ({ id: p.id, code: p.code, name: p.name, requirementText: describeRequirement(steamRequirementOf(p.requirement)) })),
-      openLoad: load ? { id: load.id, number: load.number, status: load.status, itemCount: Number(load.item_count ?? 0) } : null,
-      airRemovalToday: test?.result ?? null,
-    });
+    out.push({ ...m, openLoad: open.get(m.id) ?? null, airRemovalToday: test?.result ?? null });
   }
   return out;
 }
@@ -390,12 +355,10 @@ function notLoading(number: string, status: LoadStatus): AppError {
   );
 }
 
-/** Opens a load on a steriliser with one of its steam programs; a steriliser has at most one open load. */
+/** Opens a load on a usable steriliser (switched on, no open fault) with one of its steam programs; a steriliser has at most one open load. */
 export async function openLoad(db: Kysely<Database>, user: SessionUser, input: { machineId: number; programId: number }, now = new Date()): Promise<LoadView> {
   const id = await db.transaction().execute(async (trx) => {
-    const machine = await trx.selectFrom("machines").selectAll().where("id", "=", input.machineId).executeTakeFirst();
-    if (!machine || machine.kind !== "steriliser") throw notFound("That steriliser");
-    if (machine.active !== 1) throw new AppError("conflict", `${machine.code} is switched off; choose another steriliser.`);
+    const machine = await requireUsableMachine(trx, input.machineId, "steriliser");
     const program = await trx.selectFrom("programs").selectAll().where("id", "=", input.programId).where("machine_id", "=", machine.id).executeTakeFirst();
     if (!program) throw new AppError("validation", `Choose one of ${machine.code}'s own programs.`, { programId: ["Not a program of this steriliser."] });
     if (program.active !== 1) throw new AppError("conflict", `Program ${program.name} is switched off; choose another.`);
@@ -516,12 +479,12 @@ export async function removeFromLoad(db: Kysely<Database>, _user: SessionUser, l
   return getLoadView(db, loadId);
 }
 
-/** Starts a loaded load: refused without the day's passed air-removal test; the load list is frozen. */
+/** Starts a loaded load: refused on a steriliser out of use (a fault recorded since it was opened) and without the day's passed air-removal test; the load list is frozen. */
 export async function startLoad(db: Kysely<Database>, user: SessionUser, loadId: number, now = new Date()): Promise<LoadView> {
   await db.transaction().execute(async (trx) => {
     const load = await loadRow(trx, loadId);
     if (load.status !== "loading") throw new AppError("conflict", `Load ${load.number} is ${LOAD_STATUS_LABELS[load.status].toLowerCase()}; only a loading load can be started.`);
-    const machine = await trx.selectFrom("machines").select(["id", "code"]).where("id", "=", load.machine_id).executeTakeFirstOrThrow();
+    const machine = await requireUsableMachine(trx, load.machine_id, "steriliser", load);
     const test = await requirePassedAirRemoval(trx, machine, unitDayOf(now), `start load ${load.number}`);
     const items = await trx
       .selectFrom("load_items as i")

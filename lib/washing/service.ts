@@ -14,9 +14,9 @@ import { checkWasherBatch, type WasherRequirement } from "@/lib/cycles/washer";
 import { serverEnv } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { fetchPage, type Page, searchTerm } from "@/lib/http/paging";
-import { formatDateTime } from "@/lib/format";
 import { describeRequirement, washerRequirementOf } from "@/lib/machines/requirements";
-import { openFaultOf } from "@/lib/monitoring/service";
+import { listStationMachines, openBatchesByMachine } from "@/lib/machines/station-machines";
+import { requireUsableMachine } from "@/lib/machines/usable";
 import { identifyAtStation } from "@/lib/stations/identify";
 import { discardStoredFile, readFileFor, saveUpload } from "@/lib/storage/files";
 import { enteredIssues, enteredSamplesToCsv } from "./entered";
@@ -99,51 +99,9 @@ export interface ScannedSet {
 
 /** The active washers with their active programs and open batch, for the washing station. */
 export async function listWashersForStation(db: Db): Promise<WasherOption[]> {
-  const washers = await db
-    .selectFrom("machines")
-    .select(["id", "code", "name", "capacity_stu"])
-    .where("kind", "=", "washer")
-    .where("active", "=", 1)
-    .orderBy("code")
-    .execute();
-  if (washers.length === 0) return [];
-  const ids = washers.map((w) => w.id);
-  const programs = await db
-    .selectFrom("programs")
-    .select(["id", "machine_id", "code", "name", "requirement"])
-    .where("machine_id", "in", ids)
-    .where("active", "=", 1)
-    .orderBy("code")
-    .execute();
-  const open = await db
-    .selectFrom("washer_batches")
-    .select((eb) => [
-      "washer_batches.id",
-      "washer_batches.number",
-      "washer_batches.status",
-      "washer_batches.machine_id",
-      eb
-        .selectFrom("washer_batch_items")
-        .whereRef("washer_batch_items.batch_id", "=", "washer_batches.id")
-        .select(eb.fn.countAll<number>().as("n"))
-        .as("item_count"),
-    ])
-    .where("washer_batches.machine_id", "in", ids)
-    .where("washer_batches.status", "in", OPEN)
-    .execute();
-  return washers.map((w) => {
-    const batch = open.find((b) => b.machine_id === w.id);
-    return {
-      id: w.id,
-      code: w.code,
-      name: w.name,
-      capacityStu: w.capacity_stu,
-      programs: programs
-        .filter((p) => p.machine_id === w.id && washerRequirementOf(p.requirement))
-        .map((p) => ({ id: p.id, code: p.code, name: p.name, requirementText: describeRequirement(washerRequirementOf(p.requirement)) })),
-      openBatch: batch ? { id: batch.id, number: batch.number, status: batch.status, itemCount: Number(batch.item_count ?? 0) } : null,
-    };
-  });
+  const washers = await listStationMachines(db, "washer", washerRequirementOf);
+  const open = await openBatchesByMachine(db, washers.map((w) => w.id));
+  return washers.map((w) => ({ ...w, openBatch: open.get(w.id) ?? null }));
 }
 
 /** One batch with its machine, program, sets and check, or 404. */
@@ -385,13 +343,7 @@ export async function openBatch(
   now = new Date(),
 ): Promise<BatchView> {
   const id = await db.transaction().execute(async (trx) => {
-    const machine = await trx.selectFrom("machines").selectAll().where("id", "=", input.machineId).executeTakeFirst();
-    if (!machine || machine.kind !== "washer") throw notFound("That washer");
-    if (machine.active !== 1) throw new AppError("conflict", `${machine.code} is switched off; choose another washer.`);
-    const fault = await openFaultOf(trx, machine.id);
-    if (fault) {
-      throw new AppError("conflict", `${machine.code} is out of use with a fault recorded ${formatDateTime(fault.at)}; choose another washer until the fault is cleared in the monitoring log.`);
-    }
+    const machine = await requireUsableMachine(trx, input.machineId, "washer");
     const program = await trx
       .selectFrom("programs")
       .selectAll()
@@ -535,13 +487,14 @@ export async function removeFromBatch(db: Kysely<Database>, _user: SessionUser, 
   return getBatchView(db, batchId);
 }
 
-/** Starts a loaded batch: its load list is fixed from now on. */
+/** Starts a loaded batch on a washer that is still usable (no fault recorded since it was opened): its load list is fixed from now on. */
 export async function startBatch(db: Kysely<Database>, user: SessionUser, batchId: number, now = new Date()): Promise<BatchView> {
   await db.transaction().execute(async (trx) => {
     const batch = await batchRow(trx, batchId);
     if (batch.status !== "loading") {
       throw new AppError("conflict", `Batch ${batch.number} is ${BATCH_STATUS_LABELS[batch.status].toLowerCase()}; only a loading batch can be started.`);
     }
+    await requireUsableMachine(trx, batch.machine_id, "washer", batch);
     const count = await trx
       .selectFrom("washer_batch_items")
       .select((eb) => eb.fn.countAll<number>().as("n"))
