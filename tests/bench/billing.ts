@@ -19,6 +19,7 @@ import { billingPeriod } from "../../lib/billing/run-periods";
 import { priceCustomerMonth } from "../../lib/billing/run-pricing";
 import { contractTermsBetween } from "../../lib/contracts/service";
 import { mulberry32 } from "../../lib/routing/random";
+import { markdownTable, median, quantile } from "./_stats";
 
 const CUSTOMERS = 60;
 const CYCLES = 300_000;
@@ -28,15 +29,6 @@ const ZONE = "Europe/London";
 const NOW = new Date("2026-12-02T09:00:00Z");
 const CLASSES = ["single_instrument", "basic_tray", "major_tray", "specialist_tray", "dental_cassette"] as const;
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-};
-function quantile(xs: number[], q: number): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.min(s.length - 1, Math.max(0, Math.ceil(q * s.length) - 1))]!;
-}
 const ms = (x: number) => `${x.toFixed(0)} ms`;
 
 /** Cycles per customer: growing linearly from 1,000, adding up to exactly CYCLES. */
@@ -204,6 +196,7 @@ async function main() {
     const total = fit(perCustomer.map((c) => [c.cycles, c.loadMs + c.priceMs]));
     const load = fit(perCustomer.map((c) => [c.cycles, c.loadMs]));
     const price = fit(perCustomer.map((c) => [c.cycles, c.priceMs]));
+    const fitRow = (part: string, f: ReturnType<typeof fit>) => [part, ms(f.slope * 10_000), ms(f.intercept), f.r2.toFixed(3)];
     const med = median(preview);
     const base = median(baseline);
     console.log(
@@ -212,18 +205,18 @@ async function main() {
         "",
         `Data built in ${ms(buildMs)}; ${RUNS} timed runs after one warm-up; ${invoices} invoices would be made.`,
         "",
-        "| measure | median | p99 | ratio to baseline |",
-        "| --- | ---: | ---: | ---: |",
-        `| baseline: one plain SELECT of the month's cycles | ${ms(base)} | ${ms(quantile(baseline, 0.99))} | 1.0 |`,
-        `| previewRun (queries, turnaround per cycle, pricing, totals) | ${ms(med)} | ${ms(quantile(preview, 0.99))} | ${(med / base).toFixed(1)} |`,
+        ...markdownTable(["measure", "median", "p99", "ratio to baseline"], "lrrr", [
+          ["baseline: one plain SELECT of the month's cycles", ms(base), ms(quantile(baseline, 0.99)), "1.0"],
+          ["previewRun (queries, turnaround per cycle, pricing, totals)", ms(med), ms(quantile(preview, 0.99)), (med / base).toFixed(1)],
+        ]),
         "",
         "## What it scales with (least-squares fit of one preview's time per customer against its cycles)",
         "",
-        "| part | per 10,000 cycles | per customer (fixed) | R² |",
-        "| --- | ---: | ---: | ---: |",
-        `| loading (queries) | ${ms(load.slope * 10_000)} | ${ms(load.intercept)} | ${load.r2.toFixed(3)} |`,
-        `| pricing (turnaround + engine) | ${ms(price.slope * 10_000)} | ${ms(price.intercept)} | ${price.r2.toFixed(3)} |`,
-        `| total | ${ms(total.slope * 10_000)} | ${ms(total.intercept)} | ${total.r2.toFixed(3)} |`,
+        ...markdownTable(["part", "per 10,000 cycles", "per customer (fixed)", "R²"], "lrrr", [
+          fitRow("loading (queries)", load),
+          fitRow("pricing (turnaround + engine)", price),
+          fitRow("total", total),
+        ]),
         "",
         `Per 10,000 cycles of the whole preview: ${ms((med / rows) * 10_000)}; the plain SELECT: ${ms((base / rows) * 10_000)}.`,
       ].join("\n"),

@@ -14,7 +14,6 @@ import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import http from "node:http";
 import type { AddressInfo } from "node:net";
-import { createRequire } from "node:module";
 import os from "node:os";
 import path from "node:path";
 import { encode } from "next-auth/jwt";
@@ -25,31 +24,8 @@ import { loadSessionUser } from "../../lib/auth/session-user";
 import { applyCycleEvent, openCycle } from "../../lib/cycles/store";
 import { formatSetSerial, setGiai } from "../../lib/sets/identifiers";
 import { openBatch } from "../../lib/washing/service";
-
-// autocannon has no bundled types: the part of its API used here.
-interface CannonResult {
-  requests: { total: number };
-  errors: number;
-  timeouts: number;
-  non2xx: number;
-}
-interface CannonRequest {
-  method: string;
-  path: string;
-  headers: Record<string, string>;
-  body?: string;
-}
-type CannonRun = PromiseLike<CannonResult> & {
-  on(event: "response", listener: (client: unknown, status: number, bytes: number, ms: number) => void): void;
-};
-type Autocannon = (opts: {
-  url: string;
-  connections: number;
-  amount: number;
-  timeout?: number;
-  requests: (CannonRequest & { setupRequest?: (req: CannonRequest) => CannonRequest })[];
-}) => CannonRun;
-const autocannon = createRequire(__filename)("autocannon") as Autocannon;
+import { failures, fire, type Requests } from "./_http-load";
+import { fmt, markdownTable } from "./_stats";
 
 const REQUESTS = Number(process.env.LOAD_REQUESTS ?? 300);
 const CONNECTIONS = Number(process.env.LOAD_CONNECTIONS ?? 4);
@@ -58,53 +34,11 @@ const DIST = process.env.NEXT_DIST_DIR || ".next";
 /** Sets made for the bench are numbered from here, far above the demo's. */
 const FIRST_SEQUENCE = 800_001;
 
-interface Kind {
+interface Kind extends Requests {
   name: string;
-  method: "GET" | "POST";
-  path: string;
-  headers: Record<string, string>;
-  /** The body of the n-th request. */
-  body?: (n: number) => string;
 }
 
-interface Measured {
-  result: CannonResult;
-  rate: number;
-  p50: number;
-  p99: number;
-}
-
-function quantile(sorted: number[], q: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1))] ?? Number.NaN;
-}
-
-async function fire(url: string, kind: Kind): Promise<Measured> {
-  let n = 0;
-  const latencies: number[] = [];
-  const started = performance.now();
-  let last = started;
-  const run = autocannon({
-    url,
-    connections: CONNECTIONS,
-    amount: REQUESTS,
-    timeout: 60,
-    requests: [
-      {
-        method: kind.method,
-        path: kind.path,
-        headers: kind.headers,
-        setupRequest: (req) => (kind.body ? { ...req, body: kind.body(n++) } : req),
-      },
-    ],
-  });
-  run.on("response", (_client, _status, _bytes, ms) => {
-    latencies.push(ms);
-    last = performance.now();
-  });
-  const result = await run;
-  latencies.sort((a, b) => a - b);
-  return { result, rate: result.requests.total / ((last - started) / 1000), p50: quantile(latencies, 0.5), p99: quantile(latencies, 0.99) };
-}
+const volley = { amount: REQUESTS, connections: CONNECTIONS, timeout: 60 };
 
 /** Booked cycles of new sets at the main theatres (for receiving), and received ones (for washing). */
 async function prepare(file: string, booked: number, received: number) {
@@ -217,8 +151,6 @@ function baselineServer(): Promise<http.Server> {
   return new Promise((resolve) => server.listen(0, "127.0.0.1", () => resolve(server)));
 }
 
-const fmt = (n: number, digits = 0) => n.toLocaleString("en-GB", { minimumFractionDigits: digits, maximumFractionDigits: digits });
-
 async function main(): Promise<void> {
   if (!fs.existsSync(path.join(DIST, "BUILD_ID"))) {
     console.log(`No production build in ${DIST}: running \`next build\` first.`);
@@ -300,25 +232,22 @@ async function main(): Promise<void> {
       if (!res.ok) throw new Error(`${kind.name}: warm-up answered ${res.status} ${(await res.text()).slice(0, 200)}`);
     }
 
-    const app = await Promise.all(kinds.map((k) => fire(appUrl, k)));
+    const app = await Promise.all(kinds.map((k) => fire(appUrl, k, volley)));
     baseline = await baselineServer();
     const baseUrl = `http://127.0.0.1:${(baseline.address() as AddressInfo).port}`;
-    const base = await Promise.all(kinds.map((k) => fire(baseUrl, { ...k, headers: { "content-type": "application/json" } })));
+    const base = await Promise.all(kinds.map((k) => fire(baseUrl, { ...k, headers: { "content-type": "application/json" } }, volley)));
 
-    const problems = (m: Measured) => m.result.errors + m.result.timeouts + m.result.non2xx;
-    console.log(`## Mixed load: ${kinds.length} kinds at once, ${fmt(REQUESTS)} requests and ${CONNECTIONS} connections each (${os.cpus().length} cores, Node ${process.version})`);
-    console.log("");
-    console.log("| kind | app req/s | app p50 ms | app p99 ms | errors | baseline req/s | baseline p50 ms | baseline p99 ms | p50 ÷ baseline |");
-    console.log("| --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
     let errors = 0;
-    kinds.forEach((k, i) => {
+    const rows = kinds.map((k, i) => {
       const a = app[i]!;
       const b = base[i]!;
-      errors += problems(a) + problems(b);
-      console.log(
-        `| ${k.name} | ${fmt(a.rate, 1)} | ${fmt(a.p50, 1)} | ${fmt(a.p99, 1)} | ${problems(a)} | ${fmt(b.rate)} | ${fmt(b.p50, 1)} | ${fmt(b.p99, 1)} | ${fmt(a.p50 / Math.max(b.p50, 0.01), 0)} × |`,
-      );
+      errors += failures(a) + failures(b);
+      return [k.name, fmt(a.rate, 1), fmt(a.p50, 1), fmt(a.p99, 1), failures(a), fmt(b.rate), fmt(b.p50, 1), fmt(b.p99, 1), `${fmt(a.p50 / Math.max(b.p50, 0.01), 0)} ×`];
     });
+    console.log(`## Mixed load: ${kinds.length} kinds at once, ${fmt(REQUESTS)} requests and ${CONNECTIONS} connections each (${os.cpus().length} cores, Node ${process.version})`);
+    console.log("");
+    const columns = ["kind", "app req/s", "app p50 ms", "app p99 ms", "errors", "baseline req/s", "baseline p50 ms", "baseline p99 ms", "p50 ÷ baseline"];
+    for (const line of markdownTable(columns, "lrrrrrrrr", rows)) console.log(line);
     const total = app.reduce((s, m) => s + m.result.requests.total, 0);
     console.log("");
     const breakdown = app.map((m, i) => `${kinds[i]!.name}: ${m.result.errors} errors, ${m.result.timeouts} timeouts, ${m.result.non2xx} non-2xx`).join("; ");

@@ -16,6 +16,7 @@ import type { SessionUser } from "../../lib/auth/session-user";
 import { buildReport, REPORT_NAMES, type ReportName, reportQuerySchema } from "../../lib/reports/service";
 import { localDateRange } from "../../lib/reports/periods";
 import { mulberry32 } from "../../lib/routing/random";
+import { markdownTable, median, quantile } from "./_stats";
 
 const CUSTOMERS = 40;
 const CYCLES = 1_000_000;
@@ -29,15 +30,6 @@ const STATIONS = ["receiving", "washing", "packing", "sterilising", "release", "
 
 process.env.UNIT_TIME_ZONE = ZONE;
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-};
-function quantile(xs: number[], q: number): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.min(s.length - 1, Math.max(0, Math.ceil(q * s.length) - 1))]!;
-}
 const ms = (x: number) => (x >= 1000 ? `${(x / 1000).toFixed(2)} s` : `${x.toFixed(0)} ms`);
 
 function build(file: string): { unitId: number } {
@@ -158,7 +150,7 @@ async function main() {
       { label: "90 days", from: "2026-09-02", to: "2026-11-30" },
       { label: "1 year", from: "2025-12-01", to: "2026-11-30" },
     ];
-    const rows: string[] = [];
+    const rows: string[][] = [];
     for (const p of periods) {
       const range = localDateRange(p.from, p.to, ZONE);
       const baseline: number[] = [];
@@ -175,7 +167,7 @@ async function main() {
         cycles = result.length;
       }
       const base = median(baseline);
-      rows.push(`| baseline: SELECT the period's cycles | ${p.label} | ${cycles.toLocaleString("en-GB")} rows | ${ms(base)} | ${ms(quantile(baseline, 0.99))} | 1.0× |`);
+      rows.push(["baseline: SELECT the period's cycles", p.label, `${cycles.toLocaleString("en-GB")} rows`, ms(base), ms(quantile(baseline, 0.99)), "1.0×"]);
       for (const name of REPORT_NAMES) {
         if (p.label !== "90 days" && (name === "capacity" || name === "receivables")) continue;
         const times: number[] = [];
@@ -187,13 +179,11 @@ async function main() {
           size = report.tables.reduce((n, x) => n + x.rows.length, 0);
         }
         const med = median(times);
-        rows.push(`| ${name} | ${p.label} | ${size.toLocaleString("en-GB")} table rows | ${ms(med)} | ${ms(quantile(times, 0.99))} | ${(med / base).toFixed(1)}× |`);
+        rows.push([name, p.label, `${size.toLocaleString("en-GB")} table rows`, ms(med), ms(quantile(times, 0.99)), `${(med / base).toFixed(1)}×`]);
       }
     }
     console.log(`Built ${CYCLES.toLocaleString("en-GB")} cycles, ${(2 * CYCLES).toLocaleString("en-GB")} scan events and ${Math.round(CYCLES / 12).toLocaleString("en-GB")} washer batches in ${ms(buildMs)}; ${RUNS} timed runs each after one warm-up (p99 of ${RUNS} runs is their slowest).\n`);
-    console.log("| report | period | answer | median | p99 | ratio to baseline |");
-    console.log("| --- | --- | ---: | ---: | ---: | ---: |");
-    for (const row of rows) console.log(row);
+    for (const line of markdownTable(["report", "period", "answer", "median", "p99", "ratio to baseline"], "llrrrr", rows)) console.log(line);
     await db.destroy();
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });

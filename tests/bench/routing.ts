@@ -13,6 +13,7 @@ import { solve } from "../../lib/routing/solver";
 import { solveTsp } from "../../lib/routing/tsp";
 import type { Problem, Stop, Vehicle } from "../../lib/routing/types";
 import { validateSolution } from "../../lib/routing/validate";
+import { markdownTable, median, quantile } from "./_stats";
 
 const repoRoot = path.resolve(__dirname, "..", "..");
 const benchmarks = path.join(repoRoot, "..", "shared", "benchmarks");
@@ -26,17 +27,6 @@ const DAY_ITERATIONS = 2000;
 const pct = (x: number) => `${(Math.abs(x) < 5e-5 ? 0 : x * 100).toFixed(2)} %`;
 const ms = (x: number) => `${x.toFixed(0)} ms`;
 
-function quantile(xs: number[], q: number): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const i = Math.min(s.length - 1, Math.max(0, Math.ceil(q * s.length) - 1));
-  return s[i];
-}
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
-
 function time<T>(f: () => T): [T, number] {
   const t = performance.now();
   const r = f();
@@ -48,21 +38,20 @@ function time<T>(f: () => T): [T, number] {
 const TSP = { eil51: 426, berlin52: 7542, st70: 675, eil76: 538, kroA100: 21282 };
 
 function tsplib(): string[] {
-  const rows = [
-    `## TSPLIB (EUC_2D), ${TSP_MS} ms budget each — aim: within 2 % of the optimum`,
-    "",
-    "| instance | optimum | opt. tour check | baseline (2-opt/Or-opt, no ILS) | tour | gap | time | rounds | aim met |",
-    "| --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | :-: |",
-  ];
+  const rows: (string | number)[][] = [];
   for (const [name, optimum] of Object.entries(TSP)) {
     const inst = parseTsplib(read("tsplib", `${name}.tsp`));
     const check = tourLength(parseTsplibTour(read("tsplib", `${name}.opt.tour`)), inst.points, euc2d);
     const base = solveTsp(inst.points, euc2d, { seed: 1, maxIterations: 0 });
     const [r, t] = time(() => solveTsp(inst.points, euc2d, { seed: 1, timeBudgetMs: TSP_MS }));
     const gap = r.length / optimum - 1;
-    rows.push(`| ${name} | ${optimum} | ${check} | ${base.length} (${pct(base.length / optimum - 1)}) | ${r.length} | ${pct(gap)} | ${ms(t)} | ${r.iterations} | ${gap <= 0.02 ? "yes" : "no"} |`);
+    rows.push([name, optimum, check, `${base.length} (${pct(base.length / optimum - 1)})`, r.length, pct(gap), ms(t), r.iterations, gap <= 0.02 ? "yes" : "no"]);
   }
-  return rows;
+  return [
+    `## TSPLIB (EUC_2D), ${TSP_MS} ms budget each — aim: within 2 % of the optimum`,
+    "",
+    ...markdownTable(["instance", "optimum", "opt. tour check", "baseline (2-opt/Or-opt, no ILS)", "tour", "gap", "time", "rounds", "aim met"], "lrrrrrrrc", rows),
+  ];
 }
 
 // --- Solomon --------------------------------------------------------------------------------
@@ -80,12 +69,7 @@ const SOLOMON: { name: string; file: string; vehicles: number; distance: number;
 ];
 
 function solomon(): string[] {
-  const rows = [
-    `## Solomon VRPTW, ${VRP_MS} ms budget each (fewest vans, then distance)`,
-    "",
-    "| instance | best known | baseline (construction) | vans | distance | gap | feasible | time | iterations | aim |",
-    "| --- | ---: | ---: | ---: | ---: | ---: | :-: | ---: | ---: | --- |",
-  ];
+  const rows: (string | number)[][] = [];
   for (const s of SOLOMON) {
     const { problem, travel } = solomonProblem(parseSolomon(read("solomon", s.file)));
     const base = solve(problem, travel, { seed: 1, maxIterations: 0 });
@@ -96,11 +80,24 @@ function solomon(): string[] {
     const gapText = sol.cost.vehicles === s.vehicles ? pct(gap) : `${pct(gap)} (with ${sol.cost.vehicles} vans, not ${s.vehicles})`;
     const ok = validateSolution(problem, sol, travel).length === 0 && sol.unassigned.length === 0;
     const aim = s.aim ? `${s.aimText}: ${s.aim(sol.cost.vehicles, gap) ? "met" : "not met"}` : "";
-    rows.push(
-      `| ${s.name} | ${s.vehicles} / ${s.distance.toFixed(2)} | ${base.cost.vehicles} / ${base.cost.distanceKm.toFixed(2)} | ${sol.cost.vehicles} | ${sol.cost.distanceKm.toFixed(2)} | ${gapText} | ${ok ? "yes" : "NO"} | ${ms(t)} | ${sol.search?.iterations ?? 0} | ${aim} |`,
-    );
+    rows.push([
+      s.name,
+      `${s.vehicles} / ${s.distance.toFixed(2)}`,
+      `${base.cost.vehicles} / ${base.cost.distanceKm.toFixed(2)}`,
+      sol.cost.vehicles,
+      sol.cost.distanceKm.toFixed(2),
+      gapText,
+      ok ? "yes" : "NO",
+      ms(t),
+      sol.search?.iterations ?? 0,
+      aim,
+    ]);
   }
-  return rows;
+  return [
+    `## Solomon VRPTW, ${VRP_MS} ms budget each (fewest vans, then distance)`,
+    "",
+    ...markdownTable(["instance", "best known", "baseline (construction)", "vans", "distance", "gap", "feasible", "time", "iterations", "aim"], "lrrrrrcrrl", rows),
+  ];
 }
 
 // --- Synthetic day --------------------------------------------------------------------------
@@ -167,12 +164,12 @@ function synthetic(): string[] {
   return [
     `## Synthetic day: 150 stops, 12 vans, two compartments, windows and breaks (${DAY_RUNS} seeded days, ${DAY_ITERATIONS} iterations each)`,
     "",
-    "| measure | median | p99 | ratio to baseline (median) |",
-    "| --- | ---: | ---: | ---: |",
-    `| baseline: construction only | ${ms(median(baseTimes))} | ${ms(quantile(baseTimes, 0.99))} | 1.00 |`,
-    `| full search | ${ms(median(times))} | ${ms(quantile(times, 0.99))} | ${(median(times) / median(baseTimes)).toFixed(2)} |`,
-    `| distance (km), construction → search | ${median(baseKm).toFixed(1)} → ${median(km).toFixed(1)} | | ${(median(km) / median(baseKm)).toFixed(3)} |`,
-    `| vans used | ${median(vans)} | ${quantile(vans, 0.99)} | |`,
+    ...markdownTable(["measure", "median", "p99", "ratio to baseline (median)"], "lrrr", [
+      ["baseline: construction only", ms(median(baseTimes)), ms(quantile(baseTimes, 0.99)), "1.00"],
+      ["full search", ms(median(times)), ms(quantile(times, 0.99)), (median(times) / median(baseTimes)).toFixed(2)],
+      ["distance (km), construction → search", `${median(baseKm).toFixed(1)} → ${median(km).toFixed(1)}`, "", (median(km) / median(baseKm)).toFixed(3)],
+      ["vans used", median(vans), quantile(vans, 0.99), ""],
+    ]),
     "",
     `Unassigned stops over all days: ${unassigned}; broken rules found by validateSolution: ${broken}.`,
   ];

@@ -12,7 +12,6 @@ import { spawn, spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import http from "node:http";
-import { createRequire } from "node:module";
 import os from "node:os";
 import path from "node:path";
 import Database from "better-sqlite3";
@@ -22,34 +21,8 @@ import { runToEnd, SERVER_CONDITION, waitForHttp } from "../../fakes/processes";
 import { type StackOptions, startStack, stackEnv } from "../../fakes/stack";
 import { openCycle } from "../../lib/cycles/store";
 import { formatSetSerial, setGiai } from "../../lib/sets/identifiers";
-
-// ---------------------------------------------------------------------------------------------
-// autocannon has no bundled types: the part of its API used here.
-
-interface CannonResult {
-  requests: { total: number };
-  errors: number;
-  timeouts: number;
-  non2xx: number;
-}
-interface CannonRequest {
-  method: string;
-  path: string;
-  headers: Record<string, string>;
-  body?: string;
-}
-/** The run: a promise of the result that also emits "response" (client, status, bytes, milliseconds) per answer. */
-type CannonRun = PromiseLike<CannonResult> & {
-  on(event: "response", listener: (client: unknown, status: number, bytes: number, ms: number) => void): void;
-};
-type Autocannon = (opts: {
-  url: string;
-  connections: number;
-  amount: number;
-  timeout?: number;
-  requests: (CannonRequest & { setupRequest?: (req: CannonRequest) => CannonRequest })[];
-}) => CannonRun;
-const autocannon = createRequire(__filename)("autocannon") as Autocannon;
+import { failures, fire, type Requests } from "./_http-load";
+import { fmt, markdownTable } from "./_stats";
 
 /** What a scanner sends for a set's DataMatrix label: its GS1 element string, AI (8004) and the GIAI. */
 const scanOf = (giai: string) => `8004${giai}`;
@@ -214,50 +187,6 @@ function countReceives(file: string): number {
   }
 }
 
-interface Measured {
-  result: CannonResult;
-  /** Answers per second from the start to the last answer, timed here (autocannon ends a run on its 1 s tick). */
-  rate: number;
-  /** Median and 99th percentile latency in ms, from autocannon's per-response times (its histogram keeps whole ms only). */
-  p50: number;
-  p99: number;
-}
-
-function quantile(sorted: number[], q: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1))] ?? Number.NaN;
-}
-
-async function fire(url: string, path: string, headers: Record<string, string>, codes: string[], connections: number): Promise<Measured> {
-  let next = 0;
-  const latencies: number[] = [];
-  const started = performance.now();
-  const run = autocannon({
-    url,
-    connections,
-    amount: codes.length,
-    timeout: 30,
-    requests: [
-      {
-        method: "POST",
-        path,
-        headers,
-        setupRequest: (req) => ({ ...req, body: JSON.stringify({ code: codes[next++ % codes.length], clientEventId: randomUUID() }) }),
-      },
-    ],
-  });
-  let last = started;
-  run.on("response", (_client, _status, _bytes, ms) => {
-    latencies.push(ms);
-    last = performance.now();
-  });
-  const result = await run;
-  const seconds = (last - started) / 1000;
-  latencies.sort((a, b) => a - b);
-  return { result, rate: result.requests.total / seconds, p50: quantile(latencies, 0.5), p99: quantile(latencies, 0.99) };
-}
-
-const fmt = (n: number, digits = 0) => n.toLocaleString("en-GB", { minimumFractionDigits: digits, maximumFractionDigits: digits });
-
 async function main(): Promise<void> {
   ensureBuild();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "steamlane-scan-bench-"));
@@ -303,39 +232,53 @@ async function main(): Promise<void> {
     const check = await fetch(`${appUrl}/api/board`, { headers: appHeaders });
     if (check.status !== 200) throw new Error(`The technician's session was refused: GET /api/board answered ${check.status}.`);
 
-    const route = "/api/stations/receiving/scan";
     const baseUrl = `http://127.0.0.1:${baselinePort}`;
-    const baseHeaders = { "content-type": "application/json" };
+    // Each request scans the next of the given sets, with a new client event id.
+    const scansOf = (route: string, headers: Record<string, string>, codes: string[]): Requests => ({
+      method: "POST",
+      path: route,
+      headers,
+      body: (n) => JSON.stringify({ code: codes[n % codes.length], clientEventId: randomUUID() }),
+    });
+    const appScans = (codes: string[]) => scansOf("/api/stations/receiving/scan", appHeaders, codes);
+    const baseScans = (codes: string[]) => scansOf("/scan", { "content-type": "application/json" }, codes);
+    const volley = (codes: string[], connections: number) => ({ amount: codes.length, connections, timeout: 30 });
     let offset = 0;
     const take = (n: number) => scans.slice(offset, (offset += n));
     // Warm-up (not reported): the route's first requests load its code and warm the caches.
     const warm = take(WARMUP);
-    const warmApp = await fire(appUrl, route, appHeaders, warm, 4);
-    const warmBase = await fire(baseUrl, "/scan", baseHeaders, warm, 4);
-    const problems = (m: Measured) => m.result.errors + m.result.timeouts + m.result.non2xx;
-    if (problems(warmApp) || problems(warmBase)) throw new Error(`Warm-up requests failed: app ${problems(warmApp)}, baseline ${problems(warmBase)}.`);
+    const warmApp = await fire(appUrl, appScans(warm), volley(warm, 4));
+    const warmBase = await fire(baseUrl, baseScans(warm), volley(warm, 4));
+    if (failures(warmApp) || failures(warmBase)) throw new Error(`Warm-up requests failed: app ${failures(warmApp)}, baseline ${failures(warmBase)}.`);
 
-    const rows: string[] = [];
+    const rows: string[][] = [];
     let errors = 0;
     for (const [i, connections] of LEVELS.entries()) {
       const codes = take(perLevel[i]!);
-      const app = await fire(appUrl, route, appHeaders, codes, connections);
-      const base = await fire(baseUrl, "/scan", baseHeaders, codes, connections);
-      const bad = problems(app) + problems(base);
+      const app = await fire(appUrl, appScans(codes), volley(codes, connections));
+      const base = await fire(baseUrl, baseScans(codes), volley(codes, connections));
+      const bad = failures(app) + failures(base);
       errors += bad;
-      rows.push(
-        `| ${connections} | ${fmt(codes.length)} | ${fmt(app.rate)} | ${fmt(app.p50, 2)} | ${fmt(app.p99, 2)} | ` +
-          `${fmt(base.rate)} | ${fmt(base.p50, 2)} | ${fmt(base.p99, 2)} | ${fmt(base.rate / app.rate, 1)} × | ${bad} |`,
-      );
+      rows.push([
+        String(connections),
+        fmt(codes.length),
+        fmt(app.rate),
+        fmt(app.p50, 2),
+        fmt(app.p99, 2),
+        fmt(base.rate),
+        fmt(base.p50, 2),
+        fmt(base.p99, 2),
+        `${fmt(base.rate / app.rate, 1)} ×`,
+        String(bad),
+      ]);
     }
     // The demo's own history holds receive events too: count what this run added.
     const recordedApp = countReceives(dbFile) - receivedBefore;
     const recordedBase = countReceives(copy) - receivedBefore;
     console.log(`## Receiving scans: the app's route against a bare node:http + SQLite insert (${os.cpus().length} cores, Node ${process.version})`);
     console.log("");
-    console.log("| connections | requests | app req/s | app p50 ms | app p99 ms | baseline req/s | baseline p50 ms | baseline p99 ms | baseline ÷ app | errors |");
-    console.log("| ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
-    for (const r of rows) console.log(r);
+    const columns = ["connections", "requests", "app req/s", "app p50 ms", "app p99 ms", "baseline req/s", "baseline p50 ms", "baseline p99 ms", "baseline ÷ app", "errors"];
+    for (const line of markdownTable(columns, "rrrrrrrrrr", rows)) console.log(line);
     console.log("");
     console.log(`Receive events recorded: app ${fmt(recordedApp)}, baseline ${fmt(recordedBase)} (expected ${fmt(total)} each, warm-up included).`);
     if (errors > 0 || recordedApp !== total || recordedBase !== total) {

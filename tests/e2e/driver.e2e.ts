@@ -5,12 +5,13 @@ import { afterAll, beforeAll, describe, expect, inject, it, vi } from "vitest";
 import { openDatabase } from "@/db/connection";
 import { DEMO_PASSWORD } from "@/db/seed/people";
 import type { Database } from "@/db/schema";
-import { type FreeSet, freeSetsAtOneSite, pickupInState, publishTodaysRun } from "../support/run-sheets";
+import { advanceCycles, type FreeSet, freeSetsAtOneSite, pickupInState, publishTodaysRun } from "../support/run-sheets";
 import { expectPath, launchBrowser, newPage, PHONE, screenshot, signIn, waitForMail } from "./browser";
 
 // The driver's run sheet on a phone and the dispatch station. The data modules guard themselves
 // with `server-only`; this test calls the cycle store directly on the stack's database to bring
-// sets to the van, as the earlier stations would, and publishes today's run as the planner would.
+// sets to the van, as the earlier stations would, and plans and publishes today's run with the
+// dispatch code, as the dispatcher would.
 vi.mock("server-only", () => ({}));
 
 const DRIVER = "driver@larkmoor.example";
@@ -33,20 +34,24 @@ beforeAll(async () => {
   const tech = await userId(TECH);
   const a = await freeSetsAtOneSite(db, 3);
   const b = await freeSetsAtOneSite(db, 3, [a.siteId]);
-  const out = await pickupInState(db, { organisationId: a.organisationId, siteId: a.siteId, setIds: [a.sets[0]!.id, a.sets[1]!.id], userId: tech, upTo: "dispatched" });
-  const pickup = await pickupInState(db, { organisationId: a.organisationId, siteId: a.siteId, setIds: [a.sets[2]!.id], userId: tech, upTo: "booked" });
-  const back = await pickupInState(db, { organisationId: b.organisationId, siteId: b.siteId, setIds: [b.sets[0]!.id], userId: tech, upTo: "dispatched" });
-  const ready = await pickupInState(db, { organisationId: b.organisationId, siteId: b.siteId, setIds: [b.sets[1]!.id], userId: tech, upTo: "released" });
-  const waiting = await pickupInState(db, { organisationId: b.organisationId, siteId: b.siteId, setIds: [b.sets[2]!.id], userId: tech, upTo: "packed" });
+  // Sets go back once released: the day is planned and published first, then they are loaded.
+  const out = await pickupInState(db, { organisationId: a.organisationId, siteId: a.siteId, setIds: [a.sets[0]!.id, a.sets[1]!.id], userId: tech, upTo: "released" });
+  // Collected between 08:00 and 10:00: the first stop's window.
+  const pickup = await pickupInState(db, { organisationId: a.organisationId, siteId: a.siteId, setIds: [a.sets[2]!.id], userId: tech, upTo: "booked", window: { fromMin: 8 * 60, untilMin: 10 * 60 } });
+  const back = await pickupInState(db, { organisationId: b.organisationId, siteId: b.siteId, setIds: [b.sets[0]!.id], userId: tech, upTo: "released" });
+  // One order at the second site: a set released, another still packed (not ready to load).
+  const ready = await pickupInState(db, { organisationId: b.organisationId, siteId: b.siteId, setIds: [b.sets[1]!.id, b.sets[2]!.id], userId: tech, upTo: "packed" });
+  await advanceCycles(db, { cycleIds: [ready.cycleIds[0]!], userId: tech, upTo: "released" });
   unready = b.sets[2]!;
   const plan = await publishTodaysRun(db, {
     driverId: await userId(DRIVER),
     vanName: "Van Kestrel",
     stops: [
-      { organisationId: a.organisationId, siteId: a.siteId, kind: "both", deliverOrderIds: [out.orderId], collectOrderIds: [pickup.orderId], windowStartMin: 8 * 60 },
-      { organisationId: b.organisationId, siteId: b.siteId, kind: "delivery", deliverOrderIds: [back.orderId, ready.orderId, waiting.orderId], windowStartMin: 9 * 60 + 30 },
+      { siteId: a.siteId, kind: "both", deliverOrderIds: [out.orderId], collectOrderIds: [pickup.orderId] },
+      { siteId: b.siteId, kind: "delivery", deliverOrderIds: [back.orderId, ready.orderId] },
     ],
   });
+  await advanceCycles(db, { cycleIds: [...out.cycleIds, ...back.cycleIds], userId: tech, upTo: "dispatched" });
   runId = plan.runId;
   stopIds = plan.stopIds;
   first = { siteId: a.siteId, sets: a.sets, deliverCycles: out.cycleIds, collectCycles: pickup.cycleIds, orderId: out.orderId };

@@ -1,10 +1,6 @@
-import type { Kysely } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as expiringRoute } from "@/app/api/expiring/route";
 import type { SeedResult } from "@/db/seed/demo";
-import type { Database } from "@/db/schema";
-import type { CycleEvent } from "@/lib/cycles/lifecycle";
-import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { addDays, expiryPhrase, localDateOf } from "@/lib/expiry/dates";
 import { sendBackForReprocessing } from "@/lib/expiry/send-back";
 import { listExpiringSets } from "@/lib/expiry/service";
@@ -14,10 +10,10 @@ import { bookingSchema } from "@/lib/orders/schemas";
 import { bookPickup, cancelPickup, getOrderDetail } from "@/lib/orders/service";
 import { recordUseSchema } from "@/lib/procedures/schemas";
 import { recordProcedureUse } from "@/lib/procedures/service";
-import { createSets } from "@/lib/sets/service";
 import { weeklyHours } from "@/lib/sites/opening-hours";
 import type { ServiceCalendar } from "@/lib/turnaround";
 import { countRows } from "../support/db";
+import { deliveredCycle, freshSets } from "../support/delivered-cycles";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { requestAs, sessionUser } from "../support/session";
 
@@ -30,51 +26,6 @@ const THEATRES = "Quillby Moor General – Main Theatres";
 const DAY_CASE = "Quillby Moor General – Day Case Unit";
 const EYE = "Quillby Moor Eye Centre";
 const OTTERWICK = "Otterwick Day Surgery Centre";
-
-const TO_DELIVERED: CycleEvent[] = ["collect", "receive", "wash_passed", "pack", "sterilise", "release", "dispatch", "deliver"];
-
-/** Takes a set through a whole trip to "delivered" (every move through applyCycleEvent). */
-async function deliver(db: Kysely<Database>, setId: number, expiresOn: string | null): Promise<number> {
-  const set = await db.selectFrom("sets").select(["organisation_id", "home_site_id"]).where("id", "=", setId).executeTakeFirstOrThrow();
-  const start = new Date("2026-11-20T08:00:00Z");
-  const cycleId = await openCycle(db, {
-    organisationId: set.organisation_id,
-    siteId: set.home_site_id,
-    setId,
-    orderId: null,
-    serviceLevel: "standard",
-    heavySoil: false,
-    outOfHours: false,
-    loaner: false,
-    neededBackBy: null,
-    promisedAt: null,
-    userId: null,
-    at: start,
-  });
-  let minutes = 0;
-  for (const event of TO_DELIVERED) {
-    minutes += 60;
-    await applyCycleEvent(db, { cycleId, event, station: event === "deliver" ? "clinic" : "receiving", userId: null, at: new Date(start.getTime() + minutes * 60_000) });
-  }
-  // Sterilisation records do not set the expiry yet: the label's date is written here.
-  await db.updateTable("cycles").set({ expires_on: expiresOn }).where("id", "=", cycleId).execute();
-  return cycleId;
-}
-
-/** New sets at a site, with no history: every trip they make is made by the test. */
-async function freshSets(siteName: string, count: number) {
-  const admin = await sessionUser(t.db, seed.users["admin@larkmoor.example"]!);
-  const site = await t.db.selectFrom("sites").select(["id", "organisation_id"]).where("id", "=", seed.sites[siteName]!).executeTakeFirstOrThrow();
-  const type = await t.db
-    .selectFrom("set_types")
-    .select("id")
-    .where("organisation_id", "=", site.organisation_id)
-    .where("set_class", "!=", "loaner_set")
-    .where("active", "=", 1)
-    .orderBy("code")
-    .executeTakeFirstOrThrow();
-  return (await createSets(t.db, admin, { organisationId: site.organisation_id, setTypeId: type.id, homeSiteId: site.id, count }, NOW)).sets;
-}
 
 const user = (email: string) => sessionUser(t.db, seed.users[email]!);
 
@@ -92,7 +43,7 @@ beforeAll(async () => {
   seed = t.seed;
   // Only this file's sets carry an expiry date, so the lists hold exactly what it made.
   await t.db.updateTable("cycles").set({ expires_on: null }).execute();
-  const theatre = await freshSets(THEATRES, 11);
+  const theatre = await freshSets(t, THEATRES, 11, NOW);
   const names = ["past", "today", "day14", "day15", "used", "newer", "cancelledNewer", "noExpiry", "retired", "sendBack", "bookedElsewhere"];
   names.forEach((n, i) => (serials[n] = theatre[i]!.serial));
   const expiry: Record<string, string | null> = {
@@ -108,12 +59,12 @@ beforeAll(async () => {
     sendBack: "2026-12-08",
     bookedElsewhere: "2026-12-09",
   };
-  for (const [i, n] of names.entries()) cycles[n] = await deliver(t.db, theatre[i]!.id, expiry[n]!);
+  for (const [i, n] of names.entries()) cycles[n] = await deliveredCycle(t.db, theatre[i]!.id, { expiresOn: expiry[n]! });
 
   const staff = await user("theatres@quillby.example");
   await recordProcedureUse(t.db, staff, recordUseSchema.parse({ code: serials.used, theatre: "Theatre 1", caseReference: "QM-1", packChecked: true, indicatorChecked: true }), NOW);
   // "newer": sent again and back again; its last trip has no expiry on record, its first is stale.
-  await deliver(t.db, theatre[names.indexOf("newer")]!.id, null);
+  await deliveredCycle(t.db, theatre[names.indexOf("newer")]!.id, { expiresOn: null });
   // "cancelledNewer": a pickup was booked and cancelled; the set never left.
   const booking = (setId: number) =>
     bookingSchema.parse({
@@ -132,15 +83,15 @@ beforeAll(async () => {
   await t.db.updateTable("sets").set({ status: "retired" }).where("id", "=", theatre[names.indexOf("retired")]!.id).execute();
   await bookPickup(t.db, staff, booking(theatre[names.indexOf("bookedElsewhere")]!.id), NOW);
 
-  const [dayCase] = await freshSets(DAY_CASE, 1);
+  const [dayCase] = await freshSets(t, DAY_CASE, 1, NOW);
   serials.dayCase = dayCase!.serial;
-  cycles.dayCase = await deliver(t.db, dayCase!.id, "2026-12-02");
-  const [eye] = await freshSets(EYE, 1);
+  cycles.dayCase = await deliveredCycle(t.db, dayCase!.id, { expiresOn: "2026-12-02" });
+  const [eye] = await freshSets(t, EYE, 1, NOW);
   serials.eye = eye!.serial;
-  cycles.eye = await deliver(t.db, eye!.id, "2026-12-03");
-  const [otterwick] = await freshSets(OTTERWICK, 1);
+  cycles.eye = await deliveredCycle(t.db, eye!.id, { expiresOn: "2026-12-03" });
+  const [otterwick] = await freshSets(t, OTTERWICK, 1, NOW);
   serials.otterwick = otterwick!.serial;
-  cycles.otterwick = await deliver(t.db, otterwick!.id, "2026-12-02");
+  cycles.otterwick = await deliveredCycle(t.db, otterwick!.id, { expiresOn: "2026-12-02" });
 });
 afterAll(() => t.cleanup());
 
@@ -181,8 +132,8 @@ describe("the nearing-expiry list", () => {
 
   it("is served by /api/expiring for today's date, and refuses a bad look-ahead", async () => {
     const today = localDateOf(new Date(), "Europe/London");
-    const [set] = await freshSets(THEATRES, 1);
-    await deliver(t.db, set!.id, addDays(today, 3));
+    const [set] = await freshSets(t, THEATRES, 1, NOW);
+    await deliveredCycle(t.db, set!.id, { expiresOn: addDays(today, 3) });
     const res = await expiringRoute(await requestAs(seed.users["theatres@quillby.example"]!, "/api/expiring?days=5"), { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     const body = (await res.json()) as { today: string; days: number; rows: { serial: string; daysLeft: number }[] };

@@ -1,18 +1,14 @@
-import type { Kysely } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getMailPreferences, saveMailPreferences } from "@/app/(clinic)/clinic/settings/preferences";
 import type { SeedResult } from "@/db/seed/demo";
-import type { Database } from "@/db/schema";
-import type { CycleEvent } from "@/lib/cycles/lifecycle";
-import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { AppError } from "@/lib/errors";
 import { expiryDigestJob } from "@/lib/jobs/expiry-digest";
 import { weeklyPeriod } from "@/lib/jobs/schedule";
 import { type Job, runDueJobs } from "@/lib/jobs/scheduler";
 import { enqueueMail } from "@/lib/mail/outbox";
 import { MAIL_KINDS, parseMailPreferences } from "@/lib/orders/mail-preferences";
-import { createSets } from "@/lib/sets/service";
 import { countRows } from "../support/db";
+import { deliveredCycle, freshSets } from "../support/delivered-cycles";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { sessionUser } from "../support/session";
 
@@ -25,49 +21,6 @@ const OTTERWICK = "Otterwick Day Surgery Centre";
 const MONDAY = new Date("2026-12-07T07:00:00Z");
 const at = (iso: string) => new Date(iso);
 
-const TO_DELIVERED: CycleEvent[] = ["collect", "receive", "wash_passed", "pack", "sterilise", "release", "dispatch", "deliver"];
-
-async function deliver(db: Kysely<Database>, setId: number, expiresOn: string): Promise<number> {
-  const set = await db.selectFrom("sets").select(["organisation_id", "home_site_id"]).where("id", "=", setId).executeTakeFirstOrThrow();
-  const start = new Date("2026-11-20T08:00:00Z");
-  const cycleId = await openCycle(db, {
-    organisationId: set.organisation_id,
-    siteId: set.home_site_id,
-    setId,
-    orderId: null,
-    serviceLevel: "standard",
-    heavySoil: false,
-    outOfHours: false,
-    loaner: false,
-    neededBackBy: null,
-    promisedAt: null,
-    userId: null,
-    at: start,
-  });
-  let minutes = 0;
-  for (const event of TO_DELIVERED) {
-    minutes += 60;
-    await applyCycleEvent(db, { cycleId, event, station: event === "deliver" ? "clinic" : "receiving", userId: null, at: new Date(start.getTime() + minutes * 60_000) });
-  }
-  // Sterilisation records do not set the expiry yet: the label's date is written here.
-  await db.updateTable("cycles").set({ expires_on: expiresOn }).where("id", "=", cycleId).execute();
-  return cycleId;
-}
-
-async function freshSet(siteName: string) {
-  const admin = await sessionUser(t.db, seed.users["admin@larkmoor.example"]!);
-  const site = await t.db.selectFrom("sites").select(["id", "organisation_id"]).where("id", "=", seed.sites[siteName]!).executeTakeFirstOrThrow();
-  const type = await t.db
-    .selectFrom("set_types")
-    .select("id")
-    .where("organisation_id", "=", site.organisation_id)
-    .where("set_class", "!=", "loaner_set")
-    .where("active", "=", 1)
-    .orderBy("code")
-    .executeTakeFirstOrThrow();
-  const { sets } = await createSets(t.db, admin, { organisationId: site.organisation_id, setTypeId: type.id, homeSiteId: site.id, count: 1 }, MONDAY);
-  return sets[0]!;
-}
 
 const digests = () => t.db.selectFrom("outbox").selectAll().where("template", "=", "digest.expiry").orderBy("id").execute();
 const serial: Record<string, string> = {};
@@ -87,9 +40,9 @@ beforeAll(async () => {
     ["otterwick", OTTERWICK, "2026-12-09"],
   ];
   for (const [name, site, expiresOn] of plan) {
-    const set = await freshSet(site);
-    serial[name] = set.serial;
-    await deliver(t.db, set.id, expiresOn);
+    const [set] = await freshSets(t, site, 1, MONDAY);
+    serial[name] = set!.serial;
+    await deliveredCycle(t.db, set!.id, { expiresOn });
   }
 });
 afterAll(() => t.cleanup());

@@ -1,5 +1,3 @@
-import http from "node:http";
-import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as creditNoteXmlRoute } from "@/app/api/billing/invoices/[id]/credit-notes/[creditNoteId]/credit-note.xml/route";
 import { GET as invoicePdfRoute } from "@/app/api/billing/invoices/[id]/invoice.pdf/route";
@@ -8,19 +6,18 @@ import { GET as invoiceRoute } from "@/app/api/billing/invoices/[id]/route";
 import { GET as headersCsvRoute } from "@/app/api/billing/invoices/headers.csv/route";
 import { GET as listRoute } from "@/app/api/billing/invoices/route";
 import { GET as summaryRoute } from "@/app/api/billing/invoices/summary/route";
-import { POST as webhookRoute } from "@/app/api/webhooks/stripe/route";
 import type { SeedResult } from "@/db/seed/demo";
-import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
+import type { FakeStripe } from "@/fakes/stripe/server";
 import { createCreditNote } from "@/lib/billing/credit-notes";
 import { ageBucketOf, getInvoiceDetail, type InvoiceListRow } from "@/lib/billing/invoices";
 import { closeInvoice, ensureStripeInvoice, startOnlinePayment } from "@/lib/billing/payments";
 import { dailyPeriod, invoiceRemindersJob, reminderSchedule, ruleReached, sendDueReminders, setReminderSchedule } from "@/lib/billing/reminders";
 import { runDueJobs } from "@/lib/jobs/scheduler";
-import { resetServerEnvCache } from "@/lib/env";
 import { AppError } from "@/lib/errors";
-import { resetStripeClient, stripeClient } from "@/lib/stripe";
+import { stripeClient } from "@/lib/stripe";
 import { countRows } from "../support/db";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
+import { startPaymentService, type TestPaymentService } from "../support/payment-service";
 import { params, requestAs, sessionUser } from "../support/session";
 
 // Paying online, credit notes, closing invoices and reminders against the seeded demo, with the
@@ -34,28 +31,7 @@ const TABLES = ["invoices", "credit_notes", "payments", "outbox", "audit_log"] a
 let t: DemoDatabase;
 let seed: SeedResult;
 let fake: FakeStripe;
-let bridge: { url: string; close(): Promise<void> };
-
-async function startBridge() {
-  const server = http.createServer(async (req, res) => {
-    const chunks: Buffer[] = [];
-    for await (const chunk of req) chunks.push(chunk as Buffer);
-    const headers = new Headers({ "content-type": "application/json", "stripe-signature": String(req.headers["stripe-signature"] ?? "") });
-    const answer = await webhookRoute(new Request("http://localhost:3000/api/webhooks/stripe", { method: "POST", headers, body: Buffer.concat(chunks) }));
-    res.writeHead(answer.status, { "content-type": "application/json" });
-    res.end(await answer.text());
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", () => resolve()));
-  const { port } = server.address() as AddressInfo;
-  return {
-    url: `http://127.0.0.1:${port}/api/webhooks/stripe`,
-    close: () =>
-      new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      }),
-  };
-}
+let payments: TestPaymentService;
 
 const invoiceId = (number: string) => {
   const id = seed.invoices?.invoices[number];
@@ -92,23 +68,12 @@ const payByCard = async (stripeInvoiceId: string, number: string) => {
 beforeAll(async () => {
   t = await useDemoDatabase(SEEDED_AT);
   seed = t.seed;
-  bridge = await startBridge();
-  fake = await startFakeStripe({ port: 0, webhookUrl: bridge.url, webhookSecret: SECRET, defaultCurrency: "gbp", webhookRetry: { attempts: 2, baseDelayMs: 20 }, log: () => {} });
-  Object.assign(process.env, {
-    STRIPE_SECRET_KEY: "sk_test_steamlane_payments",
-    STRIPE_API_HOST: "127.0.0.1",
-    STRIPE_API_PORT: String(fake.port),
-    STRIPE_API_PROTOCOL: "http",
-    STRIPE_WEBHOOK_SECRET: SECRET,
-  });
-  resetServerEnvCache();
-  resetStripeClient();
+  payments = await startPaymentService({ secretKey: "sk_test_steamlane_payments", webhookSecret: SECRET });
+  fake = payments.fake;
 });
 
 afterAll(async () => {
-  await fake?.close();
-  await bridge?.close();
-  resetStripeClient();
+  await payments?.stop();
   await t.cleanup();
 });
 

@@ -8,11 +8,10 @@ import { DEMO_PROBLEMS } from "@/db/seed/problems";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { applyCycleEvent, type Station } from "@/lib/cycles/store";
 import type { CycleEvent } from "@/lib/cycles/lifecycle";
-import { bookingSchema } from "@/lib/orders/schemas";
-import { bookPickup, getOrderDetail } from "@/lib/orders/service";
 import { answerProblemAction, reportProblemAction } from "@/lib/problems/actions";
 import { answerProblemSchema, listProblemsQuerySchema, reportProblemSchema } from "@/lib/problems/schemas";
 import { answerProblem, listOrderProblems, listProblems, reportProblem } from "@/lib/problems/service";
+import { bookedPickup } from "../support/bookings";
 import { countRows } from "../support/db";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionCookie, sessionUser } from "../support/session";
@@ -93,25 +92,7 @@ const ROUTE: [CycleEvent, Station][] = [
 
 /** Books a pickup of n sets at a site and moves the first `deliver` of them to delivered. */
 async function order(email: string, siteName: string, n: number, deliver = n) {
-  const staff = await as(email);
-  const setIds = await freeSets(siteName, n);
-  const { orderId, reference } = await bookPickup(
-    t.db,
-    staff,
-    bookingSchema.parse({
-      siteId: seed.sites[siteName]!,
-      setIds,
-      extras: [],
-      collectionFrom: "2026-12-02T09:00",
-      collectionUntil: "2026-12-02T12:00",
-      neededBackBy: "2026-12-09T17:00",
-      serviceLevel: "standard",
-      heavySoil: false,
-      notes: "",
-    }),
-    NOW,
-  );
-  const cycles = (await getOrderDetail(t.db, staff, orderId)).cycles;
+  const { orderId, reference, cycles } = await bookedPickup(t, email, siteName, await freeSets(siteName, n), NOW);
   for (const c of cycles.slice(0, deliver)) {
     for (const [event, station] of ROUTE) await applyCycleEvent(t.db, { cycleId: c.cycleId, event, station, userId: null, at: NOW });
   }

@@ -2,17 +2,13 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as checkRoute } from "@/app/api/procedures/check/route";
 import { GET as listUsesRoute } from "@/app/api/procedures/route";
 import type { SeedResult } from "@/db/seed/demo";
-import type { Database } from "@/db/schema";
-import type { Kysely } from "kysely";
-import { type CycleEvent } from "@/lib/cycles/lifecycle";
-import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { AppError } from "@/lib/errors";
 import { bookingSchema } from "@/lib/orders/schemas";
 import { bookPickup } from "@/lib/orders/service";
 import { caseReferenceSchema, recordUseSchema, theatreSchema } from "@/lib/procedures/schemas";
-import { createSets } from "@/lib/sets/service";
 import { checkScannedSet, proceduresForCycles, recordProcedureUse } from "@/lib/procedures/service";
 import { countRows } from "../support/db";
+import { deliveredCycle, freshSets } from "../support/delivered-cycles";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { requestAs, sessionUser } from "../support/session";
 
@@ -24,63 +20,16 @@ const THEATRES = "Quillby Moor General – Main Theatres";
 const DAY_CASE = "Quillby Moor General – Day Case Unit";
 const TABLES = ["procedure_uses", "audit_log", "cycles", "scan_events"] as const;
 
-const TO_DELIVERED: CycleEvent[] = ["collect", "receive", "wash_passed", "pack", "sterilise", "release", "dispatch", "deliver"];
-
-/** Takes a set through a whole trip to "delivered" (every move through applyCycleEvent). */
-async function deliver(db: Kysely<Database>, setId: number, options: { expiresOn?: string | null; upTo?: CycleEvent } = {}): Promise<number> {
-  const set = await db.selectFrom("sets").select(["organisation_id", "home_site_id"]).where("id", "=", setId).executeTakeFirstOrThrow();
-  const start = new Date("2026-11-20T08:00:00Z");
-  const cycleId = await openCycle(db, {
-    organisationId: set.organisation_id,
-    siteId: set.home_site_id,
-    setId,
-    orderId: null,
-    serviceLevel: "standard",
-    heavySoil: false,
-    outOfHours: false,
-    loaner: false,
-    neededBackBy: null,
-    promisedAt: null,
-    userId: null,
-    at: start,
-  });
-  let minutes = 0;
-  for (const event of TO_DELIVERED) {
-    minutes += 60;
-    await applyCycleEvent(db, { cycleId, event, station: event === "deliver" ? "clinic" : "receiving", userId: null, at: new Date(start.getTime() + minutes * 60_000) });
-    if (event === options.upTo) break;
-  }
-  // Sterilisation records do not set the expiry yet: the label's date is written here.
-  if (options.expiresOn !== undefined) await db.updateTable("cycles").set({ expires_on: options.expiresOn }).where("id", "=", cycleId).execute();
-  return cycleId;
-}
-
 let theatreSets: { id: number; serial: string; giai: string; name: string }[] = [];
 let dayCaseSets: { id: number; serial: string }[] = [];
 let otterwickSets: { id: number; serial: string }[] = [];
 
-/** New sets at a site, with no history: every trip they make is made by the test. */
-async function freshSets(siteName: string, count: number) {
-  const admin = await sessionUser(t.db, seed.users["admin@larkmoor.example"]!);
-  const site = await t.db.selectFrom("sites").select(["id", "organisation_id"]).where("id", "=", seed.sites[siteName]!).executeTakeFirstOrThrow();
-  const type = await t.db
-    .selectFrom("set_types")
-    .select(["id", "name"])
-    .where("organisation_id", "=", site.organisation_id)
-    .where("set_class", "!=", "loaner_set")
-    .where("active", "=", 1)
-    .orderBy("code")
-    .executeTakeFirstOrThrow();
-  const { sets } = await createSets(t.db, admin, { organisationId: site.organisation_id, setTypeId: type.id, homeSiteId: site.id, count }, NOW);
-  return sets.map((s) => ({ ...s, name: type.name }));
-}
-
 beforeAll(async () => {
   t = await useDemoDatabase(new Date("2026-12-01T08:00:00Z"));
   seed = t.seed;
-  theatreSets = await freshSets(THEATRES, 12);
-  dayCaseSets = await freshSets(DAY_CASE, 2);
-  otterwickSets = await freshSets("Otterwick Day Surgery Centre", 2);
+  theatreSets = await freshSets(t, THEATRES, 12, NOW);
+  dayCaseSets = await freshSets(t, DAY_CASE, 2, NOW);
+  otterwickSets = await freshSets(t, "Otterwick Day Surgery Centre", 2, NOW);
 });
 afterAll(() => t.cleanup());
 
@@ -99,7 +48,7 @@ describe("recording a set used for a procedure", () => {
   it("shows what was scanned, records the use with its checks, and lists it for the clinic", async () => {
     const staff = await user("theatres@quillby.example");
     const set = theatreSets[0]!;
-    const cycleId = await deliver(t.db, set.id, { expiresOn: "2026-12-20" });
+    const cycleId = await deliveredCycle(t.db, set.id, { expiresOn: "2026-12-20" });
 
     // A GS1 scan of the label (bracketed, as a wedge configured for human-readable form sends it).
     const shown = await checkScannedSet(t.db, staff, `(8004)${set.giai}`, NOW);
@@ -147,8 +96,8 @@ describe("recording a set used for a procedure", () => {
   it("refuses a set that was not delivered, is booked again, was already used or has expired — and writes nothing", async () => {
     const staff = await user("theatres@quillby.example");
     const [, neverSent, midCycle, booked, used, expired, expiresToday] = theatreSets;
-    await deliver(t.db, midCycle!.id, { upTo: "receive" });
-    await deliver(t.db, booked!.id, { expiresOn: "2026-12-20" });
+    await deliveredCycle(t.db, midCycle!.id, { upTo: "receive" });
+    await deliveredCycle(t.db, booked!.id, { expiresOn: "2026-12-20" });
     const { reference } = await bookPickup(
       t.db,
       staff,
@@ -165,10 +114,10 @@ describe("recording a set used for a procedure", () => {
       }),
       NOW,
     );
-    await deliver(t.db, used!.id, { expiresOn: "2026-12-20" });
+    await deliveredCycle(t.db, used!.id, { expiresOn: "2026-12-20" });
     await recordProcedureUse(t.db, staff, use(used!.serial, { caseReference: "QM-2026/0150" }), NOW);
-    await deliver(t.db, expired!.id, { expiresOn: "2026-11-30" });
-    await deliver(t.db, expiresToday!.id, { expiresOn: "2026-12-01" });
+    await deliveredCycle(t.db, expired!.id, { expiresOn: "2026-11-30" });
+    await deliveredCycle(t.db, expiresToday!.id, { expiresOn: "2026-12-01" });
 
     const before = await countRows(t.db, [...TABLES]);
     await refused(recordProcedureUse(t.db, staff, use(neverSent!.serial), NOW), "conflict", /has no delivery from the unit on record/);
@@ -196,8 +145,8 @@ describe("recording a set used for a procedure", () => {
     const manager = await user("manager@quillby.example");
     const theirs = otterwickSets[0]!;
     const dayCase = dayCaseSets[0]!;
-    await deliver(t.db, theirs.id, { expiresOn: "2026-12-20" });
-    await deliver(t.db, dayCase.id, { expiresOn: "2026-12-20" });
+    await deliveredCycle(t.db, theirs.id, { expiresOn: "2026-12-20" });
+    await deliveredCycle(t.db, dayCase.id, { expiresOn: "2026-12-20" });
     const before = await countRows(t.db, [...TABLES]);
     await refused(recordProcedureUse(t.db, staff, use(theirs.serial), NOW), "not_found", new RegExp(`No set with the code ${theirs.serial}`));
     await refused(recordProcedureUse(t.db, manager, use(theirs.serial), NOW), "not_found", /is among your sets/);
@@ -246,9 +195,9 @@ describe("procedures for a recall", () => {
     const a = theatreSets[10]!;
     const b = theatreSets[11]!;
     const c = otterwickSets[1]!;
-    const cycleA = await deliver(t.db, a.id, { expiresOn: "2026-12-20" });
-    const cycleB = await deliver(t.db, b.id, { expiresOn: "2026-12-20" });
-    const cycleC = await deliver(t.db, c.id, { expiresOn: "2026-12-20" });
+    const cycleA = await deliveredCycle(t.db, a.id, { expiresOn: "2026-12-20" });
+    const cycleB = await deliveredCycle(t.db, b.id, { expiresOn: "2026-12-20" });
+    const cycleC = await deliveredCycle(t.db, c.id, { expiresOn: "2026-12-20" });
     await recordProcedureUse(t.db, staff, use(a.serial, { theatre: "Theatre 4", caseReference: "QM-9001" }), NOW);
     await recordProcedureUse(t.db, otterwick, use(c.serial, { theatre: "Room 1", caseReference: "ODS-77" }), new Date("2026-12-01T11:00:00Z"));
     // cycleB was delivered but not used: it is in the load, not in any procedure.

@@ -7,10 +7,10 @@ import type { SeedResult } from "@/db/seed/demo";
 import type { Database } from "@/db/schema";
 import { applyCycleEvent } from "@/lib/cycles/store";
 import { AppError } from "@/lib/errors";
-import { bookingSchema } from "@/lib/orders/schemas";
-import { bookPickup, getOrderDetail } from "@/lib/orders/service";
+import { getOrderDetail } from "@/lib/orders/service";
 import { finishReceiving, listOrderNotices, receiveScan, setHeavySoil } from "@/lib/stations/receiving";
 import { type ReceivingAnswer, routeAfterReceiving } from "@/lib/stations/receiving-shared";
+import { bookedPickup } from "../support/bookings";
 import { countRows } from "../support/db";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionUser } from "../support/session";
@@ -59,27 +59,7 @@ async function freeSets(siteName: string | null, n: number, flag?: string): Prom
 }
 
 /** Books a pickup of the sets at the site as its clinic staff. */
-async function book(setIds: number[], email = "theatres@quillby.example", siteName = THEATRES) {
-  const staff = await as(email);
-  const { orderId, reference } = await bookPickup(
-    t.db,
-    staff,
-    bookingSchema.parse({
-      siteId: seed.sites[siteName]!,
-      setIds,
-      extras: [],
-      collectionFrom: "2026-12-02T09:00",
-      collectionUntil: "2026-12-02T12:00",
-      neededBackBy: "2026-12-09T17:00",
-      serviceLevel: "standard",
-      heavySoil: false,
-      notes: "",
-    }),
-    NOW,
-  );
-  const cycles = (await getOrderDetail(t.db, staff, orderId)).cycles;
-  return { orderId, reference, cycles };
-}
+const book = (setIds: number[], email = "theatres@quillby.example", siteName = THEATRES) => bookedPickup(t, email, siteName, setIds, NOW);
 
 async function scan(body: unknown, email = TECH) {
   const res = await scanRoute(await requestAs(user(email), "/api/stations/receiving/scan", { method: "POST", body, origin: ORIGIN }), params({}));

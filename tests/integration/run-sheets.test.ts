@@ -15,7 +15,7 @@ import type { CompleteStopResult, RunSheet, StopScanResult } from "@/lib/runs/sh
 import type { DispatchAnswer, DispatchBoard } from "@/lib/stations/dispatch-shared";
 import { countRows } from "../support/db";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
-import { freeSetsAtOneSite, pickupInState, publishTodaysRun } from "../support/run-sheets";
+import { advanceCycles, freeSetsAtOneSite, pickupInState, publishTodaysRun } from "../support/run-sheets";
 import { params, requestAs } from "../support/session";
 
 // The driver's run sheet and the dispatch station against a migrated database with the demo
@@ -86,25 +86,27 @@ describe("a driver's run sheet", () => {
     secondSite = await freeSetsAtOneSite(t.db, 1, [sets.siteId]);
     thirdSite = await freeSetsAtOneSite(t.db, 1, [sets.siteId, secondSite.siteId]);
     const site = { organisationId: sets.organisationId, siteId: sets.siteId };
-    const out = await pickupInState(t.db, { ...site, setIds: [sets.sets[0]!.id, sets.sets[1]!.id], userId: tech, upTo: "dispatched" });
+    // Sets go back once released; the planned run is published before they are loaded on the van.
+    const out = await pickupInState(t.db, { ...site, setIds: [sets.sets[0]!.id, sets.sets[1]!.id], userId: tech, upTo: "released" });
     deliverOrderId = out.orderId;
     deliverCycles = out.cycleIds;
     const pickup = await pickupInState(t.db, { ...site, setIds: [sets.sets[2]!.id], userId: tech, upTo: "booked" });
     collectCycles = pickup.cycleIds;
-    const second = await pickupInState(t.db, { organisationId: secondSite.organisationId, siteId: secondSite.siteId, setIds: [secondSite.sets[0]!.id], userId: tech, upTo: "dispatched" });
+    const second = await pickupInState(t.db, { organisationId: secondSite.organisationId, siteId: secondSite.siteId, setIds: [secondSite.sets[0]!.id], userId: tech, upTo: "released" });
     notServedCycles = second.cycleIds;
-    const third = await pickupInState(t.db, { organisationId: thirdSite.organisationId, siteId: thirdSite.siteId, setIds: [thirdSite.sets[0]!.id], userId: tech, upTo: "dispatched" });
+    const third = await pickupInState(t.db, { organisationId: thirdSite.organisationId, siteId: thirdSite.siteId, setIds: [thirdSite.sets[0]!.id], userId: tech, upTo: "released" });
     badSignatureCycles = third.cycleIds;
     const plan = await publishTodaysRun(t.db, {
       driverId: user(DRIVER),
       stops: [
-        { ...site, kind: "both", deliverOrderIds: [out.orderId], collectOrderIds: [pickup.orderId] },
-        { organisationId: secondSite.organisationId, siteId: secondSite.siteId, kind: "delivery", deliverOrderIds: [second.orderId] },
-        { organisationId: thirdSite.organisationId, siteId: thirdSite.siteId, kind: "delivery", deliverOrderIds: [third.orderId] },
+        { siteId: sets.siteId, kind: "both", deliverOrderIds: [out.orderId], collectOrderIds: [pickup.orderId] },
+        { siteId: secondSite.siteId, kind: "delivery", deliverOrderIds: [second.orderId] },
+        { siteId: thirdSite.siteId, kind: "delivery", deliverOrderIds: [third.orderId] },
       ],
     });
     runId = plan.runId;
     stopIds = plan.stopIds;
+    await advanceCycles(t.db, { cycleIds: [...deliverCycles, ...notServedCycles, ...badSignatureCycles], userId: tech, upTo: "dispatched" });
   });
 
   it("lists today's run for its driver, with the stops in order and the sets of each", async () => {
@@ -240,16 +242,19 @@ describe("the dispatch station", () => {
     const b = await freeSetsAtOneSite(t.db, 2, [a.siteId]);
     const siteA = { organisationId: a.organisationId, siteId: a.siteId };
     const siteB = { organisationId: b.organisationId, siteId: b.siteId };
-    const ready = await pickupInState(t.db, { ...siteA, setIds: [a.sets[0]!.id, a.sets[1]!.id], userId: tech, upTo: "released" });
-    released = ready.cycleIds.map((cycleId, i) => ({ cycleId, serial: a.sets[i]!.serial }));
-    const waiting = await pickupInState(t.db, { ...siteA, setIds: [a.sets[2]!.id], userId: tech, upTo: "sterilised" });
-    sterilised = { cycleId: waiting.cycleIds[0]!, serial: a.sets[2]!.serial };
+    // One order at site A: two sets released, one still sterilised (its load not released yet).
+    const ready = await pickupInState(t.db, { ...siteA, setIds: [a.sets[0]!.id, a.sets[1]!.id, a.sets[2]!.id], userId: tech, upTo: "sterilised" });
+    await advanceCycles(t.db, { cycleIds: ready.cycleIds.slice(0, 2), userId: tech, upTo: "released" });
+    released = ready.cycleIds.slice(0, 2).map((cycleId, i) => ({ cycleId, serial: a.sets[i]!.serial }));
+    sterilised = { cycleId: ready.cycleIds[2]!, serial: a.sets[2]!.serial };
     const elsewhere = await pickupInState(t.db, { ...siteB, setIds: [b.sets[0]!.id], userId: tech, upTo: "released" });
     otherVanSet = { cycleId: elsewhere.cycleIds[0]!, serial: b.sets[0]!.serial };
-    const loose = await pickupInState(t.db, { ...siteB, setIds: [b.sets[1]!.id], userId: tech, upTo: "released" });
+    // Released only after the day was planned and published: on no stop of today's plan.
+    const loose = await pickupInState(t.db, { ...siteB, setIds: [b.sets[1]!.id], userId: tech, upTo: "sterilised" });
     unplanned = { cycleId: loose.cycleIds[0]!, serial: b.sets[1]!.serial };
-    runId = (await publishTodaysRun(t.db, { driverId: user(DRIVER), vanName: "Van Heron", stops: [{ ...siteA, kind: "delivery", deliverOrderIds: [ready.orderId, waiting.orderId] }] })).runId;
-    otherRunId = (await publishTodaysRun(t.db, { driverId: user(OTHER_DRIVER), vanName: "Van Plover", stops: [{ ...siteB, kind: "delivery", deliverOrderIds: [elsewhere.orderId] }] })).runId;
+    runId = (await publishTodaysRun(t.db, { driverId: user(DRIVER), vanName: "Van Heron", stops: [{ siteId: a.siteId, kind: "delivery", deliverOrderIds: [ready.orderId] }] })).runId;
+    otherRunId = (await publishTodaysRun(t.db, { driverId: user(OTHER_DRIVER), vanName: "Van Plover", stops: [{ siteId: b.siteId, kind: "delivery", deliverOrderIds: [elsewhere.orderId] }] })).runId;
+    await advanceCycles(t.db, { cycleIds: loose.cycleIds, userId: tech, upTo: "released" });
   });
 
   const load = (code: string, run = runId, clientEventId: string = randomUUID()) =>

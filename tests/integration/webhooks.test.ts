@@ -1,16 +1,14 @@
-import http from "node:http";
-import type { AddressInfo } from "node:net";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { POST as webhookRoute } from "@/app/api/webhooks/stripe/route";
 import type { SeedResult } from "@/db/seed/demo";
-import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
+import type { FakeStripe } from "@/fakes/stripe/server";
 import { ensureStripeInvoice } from "@/lib/billing/payments";
 import { mayMove } from "@/lib/billing/webhooks";
-import { resetServerEnvCache } from "@/lib/env";
-import { resetStripeClient, stripeClient } from "@/lib/stripe";
+import { stripeClient } from "@/lib/stripe";
 import { countRows } from "../support/db";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
+import { startPaymentService, type TestPaymentService } from "../support/payment-service";
 
 // The payment service's webhook, end to end through the real SDK and the local fake: the fake
 // posts signed events to a small server that hands them to the route handler, exactly as the
@@ -23,30 +21,7 @@ const TABLES = ["webhook_events", "invoices", "payments", "outbox", "audit_log"]
 let t: DemoDatabase;
 let seed: SeedResult;
 let fake: FakeStripe;
-let bridge: { url: string; close(): Promise<void> };
-
-/** Receives the fake's deliveries and answers with whatever the route answers. */
-async function startBridge(): Promise<{ url: string; close(): Promise<void> }> {
-  const server = http.createServer(async (req, res) => {
-    const chunks: Buffer[] = [];
-    for await (const chunk of req) chunks.push(chunk as Buffer);
-    const headers = new Headers({ "content-type": "application/json" });
-    if (req.headers["stripe-signature"]) headers.set("stripe-signature", String(req.headers["stripe-signature"]));
-    const answer = await webhookRoute(new Request("http://localhost:3000/api/webhooks/stripe", { method: "POST", headers, body: Buffer.concat(chunks) }));
-    res.writeHead(answer.status, { "content-type": "application/json" });
-    res.end(await answer.text());
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", () => resolve()));
-  const { port } = server.address() as AddressInfo;
-  return {
-    url: `http://127.0.0.1:${port}/api/webhooks/stripe`,
-    close: () =>
-      new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      }),
-  };
-}
+let payments: TestPaymentService;
 
 async function control(path: string, body?: unknown) {
   const res = await fetch(`${fake.url}${path}`, {
@@ -78,37 +53,18 @@ async function eventsOf(stripeInvoiceId: string, type: string): Promise<Stripe.E
 }
 
 async function redeliver(eventId: string) {
-  return control(`/_fake/events/${eventId}/redeliver`, { url: bridge.url, secret: SECRET });
+  return control(`/_fake/events/${eventId}/redeliver`, { url: payments.webhookUrl, secret: SECRET });
 }
 
 beforeAll(async () => {
   t = await useDemoDatabase(SEEDED_AT);
   seed = t.seed;
-  bridge = await startBridge();
-  fake = await startFakeStripe({
-    port: 0,
-    webhookUrl: bridge.url,
-    webhookSecret: SECRET,
-    accountName: "Larkmoor Sterile Services",
-    defaultCurrency: "gbp",
-    webhookRetry: { attempts: 2, baseDelayMs: 20 },
-    log: () => {},
-  });
-  Object.assign(process.env, {
-    STRIPE_SECRET_KEY: "sk_test_steamlane_webhooks",
-    STRIPE_API_HOST: "127.0.0.1",
-    STRIPE_API_PORT: String(fake.port),
-    STRIPE_API_PROTOCOL: "http",
-    STRIPE_WEBHOOK_SECRET: SECRET,
-  });
-  resetServerEnvCache();
-  resetStripeClient();
+  payments = await startPaymentService({ secretKey: "sk_test_steamlane_webhooks", webhookSecret: SECRET, accountName: "Larkmoor Sterile Services" });
+  fake = payments.fake;
 });
 
 afterAll(async () => {
-  await fake?.close();
-  await bridge?.close();
-  resetStripeClient();
+  await payments?.stop();
   await t.cleanup();
 });
 
@@ -241,7 +197,7 @@ describe("events out of order", () => {
       await redeliver(paid!.id);
       expect(await t.db.selectFrom("outbox").select("id").where("dedupe_key", "like", `invoice_receipt:${invoice.id}:%`).execute()).toHaveLength(countBefore);
     } finally {
-      fake.setWebhookEndpoint({ url: bridge.url, secret: SECRET });
+      fake.setWebhookEndpoint({ url: payments.webhookUrl, secret: SECRET });
     }
   });
 
