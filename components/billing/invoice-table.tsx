@@ -4,10 +4,8 @@ import { useQuery } from "@tanstack/react-query";
 import type { ColumnDef } from "@tanstack/react-table";
 import { Download } from "lucide-react";
 import Link from "next/link";
-import { useMemo, useState } from "react";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { useMemo } from "react";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import type { InvoiceStatus } from "@/db/schema";
 import type { AgeBucket, CurrencyTotals, InvoiceListRow, InvoiceSummary } from "@/lib/billing/invoices";
 import { formatMoney } from "@/lib/contracts/format";
@@ -32,29 +30,15 @@ export function InvoiceTable({
   statuses: InvoiceStatus[];
   timeZone: string;
 }) {
-  const [q, setQ] = useState("");
-  const [status, setStatus] = useState("");
-  const [age, setAge] = useState("");
-  const [organisationId, setOrganisationId] = useState("");
-  const filters = { q: q.trim(), status, age, organisationId };
+  const [values, setFilters] = useTableFilters({ q: "", status: "", age: "", organisationId: "" });
+  // The summary and the exports ask for the same invoices as the table.
+  const filters = { ...values, q: values.q.trim() };
   const basePath = audience === "unit" ? "/unit/billing/invoices" : "/clinic/invoices";
-  const table = useServerTable<InvoiceListRow, Record<string, string>>({
-    queryKey: "invoices",
-    url: "/api/billing/invoices",
-    defaultSort: { id: "due_date", desc: true },
-    filters,
-    pageSize: 20,
-  });
   const summary = useQuery({
     queryKey: ["invoice-summary", filters],
     queryFn: () => fetchJson<InvoiceSummary>(`/api/billing/invoices/summary${toQueryString(filters)}`),
     refetchInterval: 30_000,
   });
-  const setPage = table.setPage;
-  const change = (set: (v: string) => void) => (e: { target: { value: string } }) => {
-    set(e.target.value);
-    setPage(1);
-  };
 
   const columns = useMemo<ColumnDef<InvoiceListRow, unknown>[]>(() => {
     const cols: ColumnDef<InvoiceListRow, unknown>[] = [
@@ -111,17 +95,13 @@ export function InvoiceTable({
           {AGE_ORDER.map((bucket) => {
             const entry = summary.data.ageing.find((a) => a.bucket === bucket);
             const count = entry?.totals.reduce((s, t) => s + t.count, 0) ?? 0;
-            const selected = age === bucket;
+            const selected = values.age === bucket;
             return (
               <button
                 key={bucket}
                 type="button"
                 aria-pressed={selected}
-                onClick={() => {
-                  setAge(selected ? "" : bucket);
-                  if (!selected) setStatus("");
-                  setPage(1);
-                }}
+                onClick={() => setFilters(selected ? { age: "" } : { age: bucket, status: "" })}
                 className={`rounded-card border px-4 py-3 text-left shadow-card focus:outline-none focus-visible:ring-2 focus-visible:ring-lagoon-300 ${
                   selected ? "border-lagoon-600 bg-lagoon-50" : "border-line bg-surface hover:bg-paper"
                 }`}
@@ -136,57 +116,51 @@ export function InvoiceTable({
           })}
         </section>
       )}
-      <div className={`grid gap-3 ${audience === "unit" ? "sm:grid-cols-2 lg:grid-cols-[1fr_12rem_14rem_14rem]" : "sm:grid-cols-[1fr_12rem]"}`}>
-        <Input
-          type="search"
-          placeholder={audience === "unit" ? "Search number or customer" : "Search by invoice number"}
-          aria-label="Search invoices" value={q} onChange={change(setQ)} />
-        <Select aria-label="Status" value={status} onChange={change(setStatus)}>
-          <option value="">Any status</option>
-          {statuses.map((s) => (
-            <option key={s} value={s}>
-              {INVOICE_STATUS[s].label}
-            </option>
-          ))}
-        </Select>
-        {audience === "unit" && (
-          <>
-            <Select aria-label="Age" value={age} onChange={change(setAge)}>
-              <option value="">Any age</option>
-              {AGE_ORDER.map((b) => (
-                <option key={b} value={b}>
-                  {AGE_LABELS[b]}
-                </option>
-              ))}
-            </Select>
-            <Select aria-label="Customer" value={organisationId} onChange={change(setOrganisationId)}>
-              <option value="">Every customer</option>
-              {customers.map((c) => (
-                <option key={c.id} value={c.id}>
-                  {c.name}
-                </option>
-              ))}
-            </Select>
-          </>
-        )}
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
+      <ServerTable
+        queryKey="invoices"
+        url="/api/billing/invoices"
+        filters={values}
+        defaultSort={{ id: "due_date", desc: true }}
+        pageSize={20}
         caption="Invoices"
         columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
         getRowId={(row) => String(row.id)}
+        filterBarClassName={audience === "unit" ? "sm:grid-cols-2 lg:grid-cols-[1fr_12rem_14rem_14rem]" : "sm:grid-cols-[1fr_12rem]"}
+        filterBar={
+          <>
+            <SearchFilter
+              label="Search invoices"
+              placeholder={audience === "unit" ? "Search number or customer" : "Search by invoice number"}
+              value={values.q}
+              onChange={(q) => setFilters({ q })}
+            />
+            <SelectFilter
+              label="Status"
+              anyLabel="Any status"
+              options={statuses.map((s) => ({ value: s, label: INVOICE_STATUS[s].label }))}
+              value={values.status}
+              onChange={(status) => setFilters({ status })}
+            />
+            {audience === "unit" && (
+              <>
+                <SelectFilter
+                  label="Age"
+                  anyLabel="Any age"
+                  options={AGE_ORDER.map((b) => ({ value: b, label: AGE_LABELS[b] }))}
+                  value={values.age}
+                  onChange={(age) => setFilters({ age })}
+                />
+                <SelectFilter
+                  label="Customer"
+                  anyLabel="Every customer"
+                  options={customers.map((c) => ({ value: c.id, label: c.name }))}
+                  value={values.organisationId}
+                  onChange={(organisationId) => setFilters({ organisationId })}
+                />
+              </>
+            )}
+          </>
+        }
       />
       <div className="flex flex-col gap-3 text-sm text-muted sm:flex-row sm:items-center sm:justify-between">
         {summary.data && (

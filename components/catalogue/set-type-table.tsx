@@ -2,10 +2,8 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { useMemo, useState } from "react";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { useMemo } from "react";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { formatStu, formatWeight } from "@/lib/catalogue/measures";
 import type { SetTypeListRow } from "@/lib/catalogue/set-types";
 import {
@@ -18,6 +16,13 @@ import {
 } from "@/lib/catalogue/vocabulary";
 import { SetTypeBadges } from "./set-type-labels";
 
+/** The status filter has no "any": it starts on the active set types. */
+const SET_TYPE_STATUSES = [
+  { value: "active", label: "Active" },
+  { value: "inactive", label: "Inactive" },
+  { value: "all", label: "Active and inactive" },
+] as const;
+
 /** The class without its explanation in brackets, for a narrow column. */
 function shortClassLabel(setClass: SetTypeListRow["setClass"]): string {
   return (SET_CLASS_LABELS[setClass] ?? setClass).replace(/ \(.*\)$/, "");
@@ -25,24 +30,7 @@ function shortClassLabel(setClass: SetTypeListRow["setClass"]): string {
 
 /** A customer's set types, paged, sorted and filtered on the server; each row links to its card. */
 export function SetTypeTable({ organisationId, basePath }: { organisationId?: number; basePath: string }) {
-  const [q, setQ] = useState("");
-  const [setClass, setSetClass] = useState("");
-  const [packaging, setPackaging] = useState("");
-  const [method, setMethod] = useState("");
-  const [status, setStatus] = useState("active");
-  const table = useServerTable<SetTypeListRow, Record<string, string | number | undefined>>({
-    queryKey: "set-types",
-    url: "/api/set-types",
-    defaultSort: { id: "code" },
-    filters: { organisationId, q: q.trim(), setClass, packaging, method, status },
-    pageSize: 25,
-  });
-  const setPage = table.setPage;
-  const filter = (set: (v: string) => void) => (e: { target: { value: string } }) => {
-    set(e.target.value);
-    setPage(1);
-  };
-
+  const [filters, setFilters] = useTableFilters({ q: "", setClass: "", packaging: "", method: "", status: "active" });
   const columns = useMemo<ColumnDef<SetTypeListRow, unknown>[]>(
     () => [
       {
@@ -120,63 +108,43 @@ export function SetTypeTable({ organisationId, basePath }: { organisationId?: nu
   );
 
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-[1fr_12rem_10rem_10rem_9rem]">
-        <Input
-          type="search"
-          placeholder="Search by code or name"
-          aria-label="Search by code or name"
-          value={q}
-          onChange={filter(setQ)}
-        />
-        <Select aria-label="Set class" value={setClass} onChange={filter(setSetClass)}>
-          <option value="">Every class</option>
-          {SET_CLASSES.map((c) => (
-            <option key={c} value={c}>
-              {SET_CLASS_LABELS[c]}
-            </option>
-          ))}
-        </Select>
-        <Select aria-label="Packaging" value={packaging} onChange={filter(setPackaging)}>
-          <option value="">Any packaging</option>
-          {PACKAGINGS.map((p) => (
-            <option key={p} value={p}>
-              {PACKAGING_LABELS[p]}
-            </option>
-          ))}
-        </Select>
-        <Select aria-label="Sterilisation method" value={method} onChange={filter(setMethod)}>
-          <option value="">Any method</option>
-          {STERILISATION_METHODS.map((m) => (
-            <option key={m} value={m}>
-              {STERILISATION_METHOD_LABELS[m]}
-            </option>
-          ))}
-        </Select>
-        <Select aria-label="Status" value={status} onChange={filter(setStatus)}>
-          <option value="active">Active</option>
-          <option value="inactive">Inactive</option>
-          <option value="all">Active and inactive</option>
-        </Select>
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
-        caption="Set types"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(row) => String(row.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="set-types"
+      url="/api/set-types"
+      filters={{ organisationId, ...filters }}
+      defaultSort={{ id: "code" }}
+      pageSize={25}
+      caption="Set types"
+      columns={columns}
+      getRowId={(row) => String(row.id)}
+      filterBarClassName="sm:grid-cols-2 lg:grid-cols-[1fr_12rem_10rem_10rem_9rem]"
+      filterBar={
+        <>
+          <SearchFilter label="Search by code or name" value={filters.q} onChange={(q) => setFilters({ q })} />
+          <SelectFilter
+            label="Set class"
+            anyLabel="Every class"
+            options={SET_CLASSES.map((c) => ({ value: c, label: SET_CLASS_LABELS[c] }))}
+            value={filters.setClass}
+            onChange={(setClass) => setFilters({ setClass })}
+          />
+          <SelectFilter
+            label="Packaging"
+            anyLabel="Any packaging"
+            options={PACKAGINGS.map((p) => ({ value: p, label: PACKAGING_LABELS[p] }))}
+            value={filters.packaging}
+            onChange={(packaging) => setFilters({ packaging })}
+          />
+          <SelectFilter
+            label="Sterilisation method"
+            anyLabel="Any method"
+            options={STERILISATION_METHODS.map((m) => ({ value: m, label: STERILISATION_METHOD_LABELS[m] }))}
+            value={filters.method}
+            onChange={(method) => setFilters({ method })}
+          />
+          <SelectFilter label="Status" options={SET_TYPE_STATUSES} value={filters.status} onChange={(status) => setFilters({ status })} />
+        </>
+      }
+    />
   );
 }

@@ -2,10 +2,8 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { useMemo, useState } from "react";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { useMemo } from "react";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { CONTRACT_STATUSES } from "@/lib/contracts/dates";
 import { CONTRACT_STATUS_LABELS, formatLocalDate } from "@/lib/contracts/format";
 import type { ContractListRow } from "@/lib/contracts/service";
@@ -13,17 +11,7 @@ import { ContractStatusBadge } from "./status-badge";
 
 /** Every contract version in the caller's scope, paged, sorted and filtered on the server. */
 export function ContractsTable({ customers }: { customers: { id: number; name: string }[] }) {
-  const [q, setQ] = useState("");
-  const [status, setStatus] = useState("");
-  const [organisationId, setOrganisationId] = useState("");
-  const table = useServerTable<ContractListRow, Record<string, string>>({
-    queryKey: "contracts",
-    url: "/api/contracts",
-    defaultSort: { id: "organisation" },
-    filters: { q: q.trim(), status, organisationId },
-    pageSize: 25,
-  });
-  const setPage = table.setPage;
+  const [filters, setFilters] = useTableFilters({ q: "", status: "", organisationId: "" });
 
   const columns = useMemo<ColumnDef<ContractListRow, unknown>[]>(
     () => [
@@ -76,67 +64,35 @@ export function ContractsTable({ customers }: { customers: { id: number; name: s
   );
 
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-[1fr_14rem_12rem]">
-        <Input
-          type="search"
-          placeholder="Search by reference or customer"
-          aria-label="Search by reference or customer"
-          value={q}
-          onChange={(e) => {
-            setQ(e.target.value);
-            setPage(1);
-          }}
-        />
-        <Select
-          aria-label="Customer"
-          value={organisationId}
-          onChange={(e) => {
-            setOrganisationId(e.target.value);
-            setPage(1);
-          }}
-        >
-          <option value="">Every customer</option>
-          {customers.map((c) => (
-            <option key={c.id} value={c.id}>
-              {c.name}
-            </option>
-          ))}
-        </Select>
-        <Select
-          aria-label="Status"
-          value={status}
-          onChange={(e) => {
-            setStatus(e.target.value);
-            setPage(1);
-          }}
-        >
-          <option value="">Any status</option>
-          {CONTRACT_STATUSES.map((s) => (
-            <option key={s} value={s}>
-              {CONTRACT_STATUS_LABELS[s]}
-            </option>
-          ))}
-        </Select>
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
-        caption="Contract versions"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(row) => String(row.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="contracts"
+      url="/api/contracts"
+      filters={filters}
+      defaultSort={{ id: "organisation" }}
+      pageSize={25}
+      caption="Contract versions"
+      columns={columns}
+      getRowId={(row) => String(row.id)}
+      filterBarClassName="sm:grid-cols-[1fr_14rem_12rem]"
+      filterBar={
+        <>
+          <SearchFilter label="Search by reference or customer" value={filters.q} onChange={(q) => setFilters({ q })} />
+          <SelectFilter
+            label="Customer"
+            anyLabel="Every customer"
+            options={customers.map((c) => ({ value: c.id, label: c.name }))}
+            value={filters.organisationId}
+            onChange={(organisationId) => setFilters({ organisationId })}
+          />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={CONTRACT_STATUSES.map((s) => ({ value: s, label: CONTRACT_STATUS_LABELS[s] }))}
+            value={filters.status}
+            onChange={(status) => setFilters({ status })}
+          />
+        </>
+      }
+    />
   );
 }

@@ -2,23 +2,14 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { useMemo, useState } from "react";
+import { useMemo } from "react";
 import { Badge } from "@/components/ui/badge";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import type { OrganisationRow } from "@/lib/organisations/service";
 
 /** The unit and its customers, with their site and people counts. */
 export function CustomersTable() {
-  const [q, setQ] = useState("");
-  const [active, setActive] = useState("");
-  const table = useServerTable<OrganisationRow, Record<string, string>>({
-    queryKey: "organisations",
-    url: "/api/organisations",
-    defaultSort: { id: "name" },
-    filters: { q: q.trim(), active },
-  });
+  const [filters, setFilters] = useTableFilters({ q: "", active: "" });
   const columns = useMemo<ColumnDef<OrganisationRow, unknown>[]>(
     () => [
       {
@@ -50,28 +41,30 @@ export function CustomersTable() {
     [],
   );
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-[1fr_12rem]">
-        <Input type="search" aria-label="Search by name or code" placeholder="Search by name or code" value={q} onChange={(e) => { setQ(e.target.value); table.setPage(1); }} />
-        <Select aria-label="Status" value={active} onChange={(e) => { setActive(e.target.value); table.setPage(1); }}>
-          <option value="">Any status</option>
-          <option value="yes">Active</option>
-          <option value="no">Switched off</option>
-        </Select>
-      </div>
-      <DataTable
-        caption="Organisations"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(r) => String(r.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="organisations"
+      url="/api/organisations"
+      filters={filters}
+      defaultSort={{ id: "name" }}
+      caption="Organisations"
+      columns={columns}
+      getRowId={(r) => String(r.id)}
+      filterBarClassName="sm:grid-cols-[1fr_12rem]"
+      filterBar={
+        <>
+          <SearchFilter label="Search by name or code" value={filters.q} onChange={(q) => setFilters({ q })} />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={[
+              { value: "yes", label: "Active" },
+              { value: "no", label: "Switched off" },
+            ]}
+            value={filters.active}
+            onChange={(active) => setFilters({ active })}
+          />
+        </>
+      }
+    />
   );
 }

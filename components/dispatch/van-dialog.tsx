@@ -1,14 +1,10 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
-import { type ReactNode, useState } from "react";
-import { useForm } from "react-hook-form";
+import type { ReactNode } from "react";
 import { toast } from "sonner";
-import { applyFieldErrors } from "@/components/forms/apply-field-errors";
-import { FormError } from "@/components/forms/form-error";
+import { FormDialog, useFormDialog } from "@/components/forms/form-dialog";
 import { Button } from "@/components/ui/button";
-import { Dialog, DialogContent, DialogTrigger } from "@/components/ui/dialog";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { createVanAction, updateVanAction } from "@/lib/dispatch/actions";
@@ -35,78 +31,49 @@ const defaults = (van?: VanSubject): VanInput => ({
 
 /** Add a van, or change one: code, name, registration and its two compartments in carts. */
 export function VanDialog({ trigger, van }: { trigger: ReactNode; van?: VanSubject }) {
-  const [open, setOpen] = useState(false);
-  const [formError, setFormError] = useState<string | null>(null);
   const router = useRouter();
+  const dialog = useFormDialog({
+    schema: vanSchema,
+    defaults: () => defaults(van),
+    resetOnOpen: true,
+    submit: (values: VanInput) => (van ? updateVanAction({ ...values, id: van.id }) : createVanAction(values)),
+    onSuccess: (_data, parsed: VanFields) => {
+      toast.success(van ? `${parsed.code} saved` : `${parsed.code} added`);
+      router.refresh();
+    },
+  });
   const {
     register,
-    handleSubmit,
-    reset,
-    getValues,
-    setError,
-    formState: { errors, isSubmitting },
-  } = useForm<VanInput, unknown, VanFields>({ resolver: zodResolver(vanSchema), defaultValues: defaults(van) });
-
-  const onSubmit = async (parsed: VanFields) => {
-    setFormError(null);
-    const values = getValues();
-    const result = van ? await updateVanAction({ ...values, id: van.id }) : await createVanAction(values);
-    if (!result.ok) {
-      applyFieldErrors(result.error.fields, setError);
-      setFormError(result.error.message);
-      return;
-    }
-    toast.success(van ? `${parsed.code} saved` : `${parsed.code} added`);
-    setOpen(false);
-    router.refresh();
-  };
+    formState: { errors },
+  } = dialog.form;
 
   return (
-    <Dialog
-      open={open}
-      onOpenChange={(next) => {
-        setOpen(next);
-        if (next) {
-          setFormError(null);
-          reset(defaults(van));
-        }
-      }}
-    >
-      <DialogTrigger asChild>{trigger}</DialogTrigger>
-      <DialogContent title={van ? `Change van ${van.code}` : "Add a van"}>
-        <form onSubmit={handleSubmit(onSubmit)} noValidate className="space-y-4">
-          <FormError message={formError} />
-          <fieldset disabled={isSubmitting} className="space-y-4">
-            <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
-              <Field id="van-code" label="Code" hint="On the van's side, e.g. V5" error={errors.code?.message}>
-                <Input id="van-code" autoComplete="off" aria-invalid={!!errors.code} {...register("code")} />
-              </Field>
-              <Field id="van-name" label="Name" error={errors.name?.message}>
-                <Input id="van-name" autoComplete="off" aria-invalid={!!errors.name} {...register("name")} />
-              </Field>
-            </div>
-            <Field id="van-registration" label="Registration" error={errors.registration?.message}>
-              <Input id="van-registration" autoComplete="off" aria-invalid={!!errors.registration} {...register("registration")} />
-            </Field>
-            <div className="grid gap-4 sm:grid-cols-2">
-              <Field id="van-soiled" label="Soiled compartment (carts)" error={errors.soiledCapacityCarts?.message}>
-                <Input id="van-soiled" inputMode="numeric" aria-invalid={!!errors.soiledCapacityCarts} {...register("soiledCapacityCarts")} />
-              </Field>
-              <Field id="van-clean" label="Clean compartment (carts)" error={errors.cleanCapacityCarts?.message}>
-                <Input id="van-clean" inputMode="numeric" aria-invalid={!!errors.cleanCapacityCarts} {...register("cleanCapacityCarts")} />
-              </Field>
-            </div>
-            <label className="flex items-center gap-2 text-sm">
-              <input type="checkbox" {...register("active")} /> In service (can be given to a driver&apos;s shift)
-            </label>
-          </fieldset>
-          <div className="flex justify-end gap-2">
-            <Button type="submit" disabled={isSubmitting}>
-              {van ? "Save" : "Add van"}
-            </Button>
-          </div>
-        </form>
-      </DialogContent>
-    </Dialog>
+    <FormDialog dialog={dialog} trigger={trigger} title={van ? `Change van ${van.code}` : "Add a van"}>
+      <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
+        <Field id="van-code" label="Code" hint="On the van's side, e.g. V5" error={errors.code?.message}>
+          <Input id="van-code" autoComplete="off" aria-invalid={!!errors.code} {...register("code")} />
+        </Field>
+        <Field id="van-name" label="Name" error={errors.name?.message}>
+          <Input id="van-name" autoComplete="off" aria-invalid={!!errors.name} {...register("name")} />
+        </Field>
+      </div>
+      <Field id="van-registration" label="Registration" error={errors.registration?.message}>
+        <Input id="van-registration" autoComplete="off" aria-invalid={!!errors.registration} {...register("registration")} />
+      </Field>
+      <div className="grid gap-4 sm:grid-cols-2">
+        <Field id="van-soiled" label="Soiled compartment (carts)" error={errors.soiledCapacityCarts?.message}>
+          <Input id="van-soiled" inputMode="numeric" aria-invalid={!!errors.soiledCapacityCarts} {...register("soiledCapacityCarts")} />
+        </Field>
+        <Field id="van-clean" label="Clean compartment (carts)" error={errors.cleanCapacityCarts?.message}>
+          <Input id="van-clean" inputMode="numeric" aria-invalid={!!errors.cleanCapacityCarts} {...register("cleanCapacityCarts")} />
+        </Field>
+      </div>
+      <label className="flex items-center gap-2 text-sm">
+        <input type="checkbox" {...register("active")} /> In service (can be given to a driver&apos;s shift)
+      </label>
+      <div className="flex justify-end gap-2">
+        <Button type="submit">{van ? "Save" : "Add van"}</Button>
+      </div>
+    </FormDialog>
   );
 }

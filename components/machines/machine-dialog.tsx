@@ -1,14 +1,9 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
-import { type ReactNode, useState } from "react";
-import { useForm } from "react-hook-form";
+import type { ReactNode } from "react";
 import { toast } from "sonner";
-import { applyFieldErrors } from "@/components/forms/apply-field-errors";
-import { FormError } from "@/components/forms/form-error";
-import { Button } from "@/components/ui/button";
-import { Dialog, DialogContent, DialogTrigger } from "@/components/ui/dialog";
+import { FormDialog, useFormDialog } from "@/components/forms/form-dialog";
 import { Field } from "@/components/ui/field";
 import { Input, Select } from "@/components/ui/input";
 import type { MachineKind } from "@/db/schema";
@@ -44,114 +39,81 @@ function defaults(machine?: MachineFormSubject): MachineInput {
 
 /** Add a machine, or edit one. */
 export function MachineDialog({ trigger, machine }: { trigger: ReactNode; machine?: MachineFormSubject }) {
-  const [open, setOpen] = useState(false);
-  const [formError, setFormError] = useState<string | null>(null);
   const router = useRouter();
+  // The form's own values go to the server, which parses them again with the same schema.
+  const dialog = useFormDialog({
+    schema: machineSchema,
+    defaults: () => defaults(machine),
+    resetOnOpen: true,
+    submit: (values: MachineInput) => (machine ? updateMachineAction({ ...values, id: machine.id }) : createMachineAction(values)),
+    onSuccess: (data, parsed: MachineFields) => {
+      toast.success(machine ? `${parsed.code} saved` : `${parsed.code} added`);
+      if (machine) router.refresh();
+      else {
+        dialog.form.reset(defaults());
+        router.push(`/unit/machines/${data.id}`);
+      }
+    },
+  });
   const {
     register,
-    handleSubmit,
-    reset,
-    getValues,
-    setError,
-    formState: { errors, isSubmitting },
-  } = useForm<MachineInput, unknown, MachineFields>({ resolver: zodResolver(machineSchema), defaultValues: defaults(machine) });
-
-  // The form's own values go to the server, which parses them again with the same schema.
-  const onSubmit = async (parsed: MachineFields) => {
-    setFormError(null);
-    const values = getValues();
-    const result = machine ? await updateMachineAction({ ...values, id: machine.id }) : await createMachineAction(values);
-    if (!result.ok) {
-      applyFieldErrors(result.error.fields, setError);
-      setFormError(result.error.message);
-      return;
-    }
-    toast.success(machine ? `${parsed.code} saved` : `${parsed.code} added`);
-    setOpen(false);
-    if (machine) router.refresh();
-    else {
-      reset(defaults());
-      router.push(`/unit/machines/${result.data.id}`);
-    }
-  };
+    formState: { errors },
+  } = dialog.form;
 
   return (
-    <Dialog
-      open={open}
-      onOpenChange={(next) => {
-        setOpen(next);
-        if (next) {
-          setFormError(null);
-          reset(defaults(machine));
-        }
-      }}
-    >
-      <DialogTrigger asChild>{trigger}</DialogTrigger>
-      <DialogContent title={machine ? `Edit ${machine.code}` : "Add a machine"}>
-        <form onSubmit={handleSubmit(onSubmit)} noValidate className="space-y-4">
-          <FormError message={formError} />
-          <fieldset disabled={isSubmitting} className="space-y-4">
-            {machine && machine.programCount > 0 ? (
-              <div className="space-y-1.5">
-                <p className="text-sm font-medium text-ink">Kind</p>
-                <p className="text-sm text-ink-soft">{MACHINE_KIND_LABELS[machine.kind]} — a machine with programs keeps its kind.</p>
-                <input type="hidden" {...register("kind")} />
-              </div>
-            ) : (
-              <Field id="machine-kind" label="Kind" error={errors.kind?.message}>
-                <Select id="machine-kind" aria-invalid={!!errors.kind} {...register("kind")}>
-                  {MACHINE_KINDS.map((k) => (
-                    <option key={k} value={k}>
-                      {MACHINE_KIND_LABELS[k]}
-                    </option>
-                  ))}
-                </Select>
-              </Field>
-            )}
-            <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
-              <Field id="machine-code" label="Code" hint="Printed on the machine, e.g. W3" error={errors.code?.message}>
-                <Input id="machine-code" autoComplete="off" aria-invalid={!!errors.code} {...register("code")} />
-              </Field>
-              <Field id="machine-name" label="Name" error={errors.name?.message}>
-                <Input id="machine-name" autoComplete="off" aria-invalid={!!errors.name} {...register("name")} />
-              </Field>
-            </div>
-            <div className="grid gap-4 sm:grid-cols-2">
-              <Field id="machine-serial" label="Serial number (optional)" error={errors.serialNumber?.message}>
-                <Input id="machine-serial" autoComplete="off" aria-invalid={!!errors.serialNumber} {...register("serialNumber")} />
-              </Field>
-              <Field id="machine-capacity" label="Capacity in StU (optional)" hint="Sterilisation units of 300 × 300 × 600 mm" error={errors.capacityStu?.message}>
-                <Input id="machine-capacity" inputMode="decimal" aria-invalid={!!errors.capacityStu} {...register("capacityStu")} />
-              </Field>
-            </div>
-            <fieldset className="space-y-2">
-              <legend className="text-sm font-medium text-ink">Inner chamber in mm (optional)</legend>
-              <div className="grid gap-4 sm:grid-cols-3">
-                <Field id="machine-chamber-width" label="Width" error={errors.chamberWidthMm?.message}>
-                  <Input id="machine-chamber-width" inputMode="numeric" aria-invalid={!!errors.chamberWidthMm} {...register("chamberWidthMm")} />
-                </Field>
-                <Field id="machine-chamber-height" label="Height" error={errors.chamberHeightMm?.message}>
-                  <Input id="machine-chamber-height" inputMode="numeric" aria-invalid={!!errors.chamberHeightMm} {...register("chamberHeightMm")} />
-                </Field>
-                <Field id="machine-chamber-depth" label="Depth" error={errors.chamberDepthMm?.message}>
-                  <Input id="machine-chamber-depth" inputMode="numeric" aria-invalid={!!errors.chamberDepthMm} {...register("chamberDepthMm")} />
-                </Field>
-              </div>
-              <p className="text-xs text-muted">With the chamber given, an empty capacity is worked out as the whole StU modules that fit.</p>
-            </fieldset>
-            <label className="flex items-center gap-3 text-sm text-ink">
-              <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("active")} />
-              In use (switched off machines cannot take new batches or loads)
-            </label>
-            <div className="flex justify-end gap-2 pt-2">
-              <Button variant="secondary" onClick={() => setOpen(false)}>
-                Cancel
-              </Button>
-              <Button type="submit">{isSubmitting ? "Saving…" : machine ? "Save machine" : "Add machine"}</Button>
-            </div>
-          </fieldset>
-        </form>
-      </DialogContent>
-    </Dialog>
+    <FormDialog dialog={dialog} trigger={trigger} title={machine ? `Edit ${machine.code}` : "Add a machine"} submitLabel={machine ? "Save machine" : "Add machine"}>
+      {machine && machine.programCount > 0 ? (
+        <div className="space-y-1.5">
+          <p className="text-sm font-medium text-ink">Kind</p>
+          <p className="text-sm text-ink-soft">{MACHINE_KIND_LABELS[machine.kind]} — a machine with programs keeps its kind.</p>
+          <input type="hidden" {...register("kind")} />
+        </div>
+      ) : (
+        <Field id="machine-kind" label="Kind" error={errors.kind?.message}>
+          <Select id="machine-kind" aria-invalid={!!errors.kind} {...register("kind")}>
+            {MACHINE_KINDS.map((k) => (
+              <option key={k} value={k}>
+                {MACHINE_KIND_LABELS[k]}
+              </option>
+            ))}
+          </Select>
+        </Field>
+      )}
+      <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
+        <Field id="machine-code" label="Code" hint="Printed on the machine, e.g. W3" error={errors.code?.message}>
+          <Input id="machine-code" autoComplete="off" aria-invalid={!!errors.code} {...register("code")} />
+        </Field>
+        <Field id="machine-name" label="Name" error={errors.name?.message}>
+          <Input id="machine-name" autoComplete="off" aria-invalid={!!errors.name} {...register("name")} />
+        </Field>
+      </div>
+      <div className="grid gap-4 sm:grid-cols-2">
+        <Field id="machine-serial" label="Serial number (optional)" error={errors.serialNumber?.message}>
+          <Input id="machine-serial" autoComplete="off" aria-invalid={!!errors.serialNumber} {...register("serialNumber")} />
+        </Field>
+        <Field id="machine-capacity" label="Capacity in StU (optional)" hint="Sterilisation units of 300 × 300 × 600 mm" error={errors.capacityStu?.message}>
+          <Input id="machine-capacity" inputMode="decimal" aria-invalid={!!errors.capacityStu} {...register("capacityStu")} />
+        </Field>
+      </div>
+      <fieldset className="space-y-2">
+        <legend className="text-sm font-medium text-ink">Inner chamber in mm (optional)</legend>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <Field id="machine-chamber-width" label="Width" error={errors.chamberWidthMm?.message}>
+            <Input id="machine-chamber-width" inputMode="numeric" aria-invalid={!!errors.chamberWidthMm} {...register("chamberWidthMm")} />
+          </Field>
+          <Field id="machine-chamber-height" label="Height" error={errors.chamberHeightMm?.message}>
+            <Input id="machine-chamber-height" inputMode="numeric" aria-invalid={!!errors.chamberHeightMm} {...register("chamberHeightMm")} />
+          </Field>
+          <Field id="machine-chamber-depth" label="Depth" error={errors.chamberDepthMm?.message}>
+            <Input id="machine-chamber-depth" inputMode="numeric" aria-invalid={!!errors.chamberDepthMm} {...register("chamberDepthMm")} />
+          </Field>
+        </div>
+        <p className="text-xs text-muted">With the chamber given, an empty capacity is worked out as the whole StU modules that fit.</p>
+      </fieldset>
+      <label className="flex items-center gap-3 text-sm text-ink">
+        <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("active")} />
+        In use (switched off machines cannot take new batches or loads)
+      </label>
+    </FormDialog>
   );
 }

@@ -1,15 +1,12 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
-import { type ReactNode, useState } from "react";
-import { type FieldErrors, type UseFormRegister, type UseFormSetValue, useForm, useWatch } from "react-hook-form";
+import type { ReactNode } from "react";
+import { type FieldErrors, type UseFormRegister, type UseFormSetValue, useWatch } from "react-hook-form";
 import { toast } from "sonner";
 import type { z } from "zod";
-import { applyFieldErrors } from "@/components/forms/apply-field-errors";
-import { FormError } from "@/components/forms/form-error";
+import { FormDialog, useFormDialog } from "@/components/forms/form-dialog";
 import { Button } from "@/components/ui/button";
-import { Dialog, DialogContent, DialogTrigger } from "@/components/ui/dialog";
 import { Field } from "@/components/ui/field";
 import { Input, Select } from "@/components/ui/input";
 import type { MachineKind } from "@/db/schema";
@@ -25,7 +22,6 @@ import {
 import { programFormValues, programSchema } from "@/lib/machines/schemas";
 
 type FormInput = z.input<typeof programSchema>;
-type FormOutput = z.output<typeof programSchema>;
 
 export interface ProgramFormSubject {
   id: number;
@@ -76,113 +72,86 @@ export function ProgramDialog({
   machineKind: MachineKind;
   program?: ProgramFormSubject;
 }) {
-  const [open, setOpen] = useState(false);
-  const [formError, setFormError] = useState<string | null>(null);
   const router = useRouter();
+  // The form's own values go to the server, which parses them with the same schema.
+  const dialog = useFormDialog({
+    schema: programSchema,
+    defaults: () => defaults(machineId, machineKind, program),
+    resetOnOpen: true,
+    submit: (values: FormInput) => (program ? updateProgramAction({ ...values, id: program.id }) : createProgramAction(values)),
+    onSuccess: () => {
+      toast.success(program ? "Program saved" : "Program added");
+      router.refresh();
+    },
+  });
   const {
     register,
-    handleSubmit,
-    reset,
-    setError,
     setValue,
     control,
-    getValues,
-    formState: { errors, isSubmitting },
-  } = useForm<FormInput, unknown, FormOutput>({ resolver: zodResolver(programSchema), defaultValues: defaults(machineId, machineKind, program) });
+    formState: { errors },
+  } = dialog.form;
   const kind = useWatch({ control, name: "requirementKind" });
   const kinds = REQUIREMENT_KINDS_FOR[machineKind];
 
-  // The form's own values go to the server, which parses them with the same schema.
-  const onSubmit = async () => {
-    setFormError(null);
-    const values = getValues();
-    const result = program ? await updateProgramAction({ ...values, id: program.id }) : await createProgramAction(values);
-    if (!result.ok) {
-      applyFieldErrors(result.error.fields, setError);
-      setFormError(result.error.message);
-      return;
-    }
-    toast.success(program ? "Program saved" : "Program added");
-    setOpen(false);
-    router.refresh();
-  };
-
   return (
-    <Dialog
-      open={open}
-      onOpenChange={(next) => {
-        setOpen(next);
-        if (next) {
-          setFormError(null);
-          reset(defaults(machineId, machineKind, program));
-        }
-      }}
+    <FormDialog
+      dialog={dialog}
+      trigger={trigger}
+      title={program ? `Edit program ${program.code}` : "Add a program"}
+      className="max-w-xl"
+      submitLabel={program ? "Save program" : "Add program"}
     >
-      <DialogTrigger asChild>{trigger}</DialogTrigger>
-      <DialogContent title={program ? `Edit program ${program.code}` : "Add a program"} className="max-w-xl">
-        <form onSubmit={handleSubmit(onSubmit)} noValidate className="space-y-4">
-          <FormError message={formError} />
-          <fieldset disabled={isSubmitting} className="space-y-4">
-            <input type="hidden" {...register("machineId")} />
-            <div className="grid gap-4 sm:grid-cols-[9rem_1fr]">
-              <Field id="program-code" label="Code" hint="e.g. A0-3000" error={errors.code?.message}>
-                <Input id="program-code" autoComplete="off" aria-invalid={!!errors.code} {...register("code")} />
-              </Field>
-              <Field id="program-name" label="Name" error={errors.name?.message}>
-                <Input id="program-name" autoComplete="off" aria-invalid={!!errors.name} {...register("name")} />
-              </Field>
-            </div>
-            {kinds.length > 1 ? (
-              <Field id="program-kind" label="The program must achieve" error={errors.requirementKind?.message}>
-                <Select id="program-kind" aria-invalid={!!errors.requirementKind} {...register("requirementKind")}>
-                  {kinds.map((k) => (
-                    <option key={k} value={k}>
-                      {KIND_CHOICES[k]}
-                    </option>
-                  ))}
-                </Select>
-              </Field>
-            ) : (
-              <>
-                <input type="hidden" {...register("requirementKind")} />
-                {errors.requirementKind?.message && (
-                  <p role="alert" className="text-xs font-medium text-danger-700">
-                    {errors.requirementKind.message}
-                  </p>
-                )}
-              </>
-            )}
-            {kind === "a0" && <A0Fields register={register} setValue={setValue} errors={errors} />}
-            {kind === "time_temp" && <TimeTempFields register={register} setValue={setValue} errors={errors} />}
-            {kind === "steam" && <SteamFields register={register} setValue={setValue} errors={errors} />}
-            {kind === "set_point" && (
-              <div className="grid gap-4 sm:grid-cols-2">
-                <Field id="program-set-temp" label="Temperature, °C (optional)" error={errors.setTempC?.message}>
-                  <Input id="program-set-temp" inputMode="decimal" aria-invalid={!!errors.setTempC} {...register("setTempC")} />
-                </Field>
-                <Field id="program-set-minutes" label="Time, minutes (optional)" error={errors.setMinutes?.message}>
-                  <Input id="program-set-minutes" inputMode="decimal" aria-invalid={!!errors.setMinutes} {...register("setMinutes")} />
-                </Field>
-              </div>
-            )}
-            <label className="flex items-center gap-3 text-sm text-ink">
-              <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("active")} />
-              In use (offered at the stations)
-            </label>
-            <p className="text-xs text-muted">
-              The requirement is what Steamlane checks each record against, as an aid. Set it from the unit&apos;s validated process for this machine and
-              program.
+      <input type="hidden" {...register("machineId")} />
+      <div className="grid gap-4 sm:grid-cols-[9rem_1fr]">
+        <Field id="program-code" label="Code" hint="e.g. A0-3000" error={errors.code?.message}>
+          <Input id="program-code" autoComplete="off" aria-invalid={!!errors.code} {...register("code")} />
+        </Field>
+        <Field id="program-name" label="Name" error={errors.name?.message}>
+          <Input id="program-name" autoComplete="off" aria-invalid={!!errors.name} {...register("name")} />
+        </Field>
+      </div>
+      {kinds.length > 1 ? (
+        <Field id="program-kind" label="The program must achieve" error={errors.requirementKind?.message}>
+          <Select id="program-kind" aria-invalid={!!errors.requirementKind} {...register("requirementKind")}>
+            {kinds.map((k) => (
+              <option key={k} value={k}>
+                {KIND_CHOICES[k]}
+              </option>
+            ))}
+          </Select>
+        </Field>
+      ) : (
+        <>
+          <input type="hidden" {...register("requirementKind")} />
+          {errors.requirementKind?.message && (
+            <p role="alert" className="text-xs font-medium text-danger-700">
+              {errors.requirementKind.message}
             </p>
-            <div className="flex justify-end gap-2 pt-2">
-              <Button variant="secondary" onClick={() => setOpen(false)}>
-                Cancel
-              </Button>
-              <Button type="submit">{isSubmitting ? "Saving…" : program ? "Save program" : "Add program"}</Button>
-            </div>
-          </fieldset>
-        </form>
-      </DialogContent>
-    </Dialog>
+          )}
+        </>
+      )}
+      {kind === "a0" && <A0Fields register={register} setValue={setValue} errors={errors} />}
+      {kind === "time_temp" && <TimeTempFields register={register} setValue={setValue} errors={errors} />}
+      {kind === "steam" && <SteamFields register={register} setValue={setValue} errors={errors} />}
+      {kind === "set_point" && (
+        <div className="grid gap-4 sm:grid-cols-2">
+          <Field id="program-set-temp" label="Temperature, °C (optional)" error={errors.setTempC?.message}>
+            <Input id="program-set-temp" inputMode="decimal" aria-invalid={!!errors.setTempC} {...register("setTempC")} />
+          </Field>
+          <Field id="program-set-minutes" label="Time, minutes (optional)" error={errors.setMinutes?.message}>
+            <Input id="program-set-minutes" inputMode="decimal" aria-invalid={!!errors.setMinutes} {...register("setMinutes")} />
+          </Field>
+        </div>
+      )}
+      <label className="flex items-center gap-3 text-sm text-ink">
+        <input type="checkbox" className="h-5 w-5 accent-lagoon-700" {...register("active")} />
+        In use (offered at the stations)
+      </label>
+      <p className="text-xs text-muted">
+        The requirement is what Steamlane checks each record against, as an aid. Set it from the unit&apos;s validated process for this machine and
+        program.
+      </p>
+    </FormDialog>
   );
 }
 

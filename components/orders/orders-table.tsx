@@ -2,11 +2,9 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
-import { useMemo, useState } from "react";
+import { useMemo } from "react";
 import { Badge } from "@/components/ui/badge";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { DateFilter, SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { formatDateTime } from "@/lib/format";
 import { ORDER_STATUS_LABELS, ORDER_STATUSES } from "@/lib/orders/schemas";
 import type { OrderListRow } from "@/lib/orders/service";
@@ -24,20 +22,7 @@ export function OrdersTable({
   basePath: string;
   timeZone: string;
 }) {
-  const [q, setQ] = useState("");
-  const [status, setStatus] = useState("");
-  const [siteId, setSiteId] = useState("");
-  const [organisationId, setOrganisationId] = useState("");
-  const [from, setFrom] = useState("");
-  const [to, setTo] = useState("");
-  const table = useServerTable<OrderListRow, Record<string, string>>({
-    queryKey: "orders",
-    url: "/api/orders",
-    defaultSort: { id: "created_at", desc: true },
-    filters: { q: q.trim(), status, siteId, organisationId, from, to },
-    refetchIntervalMs: 15_000,
-  });
-  const reset = () => table.setPage(1);
+  const [filters, setFilters] = useTableFilters({ q: "", status: "", siteId: "", organisationId: "", from: "", to: "" });
   const columns = useMemo<ColumnDef<OrderListRow, unknown>[]>(() => {
     const cols: ColumnDef<OrderListRow, unknown>[] = [
       {
@@ -93,57 +78,53 @@ export function OrdersTable({
   }, [basePath, organisations, timeZone]);
 
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-6">
-        <Input type="search" className="lg:col-span-2" aria-label="Search orders" placeholder="Search by reference, site or note" value={q} onChange={(e) => { setQ(e.target.value); reset(); }} />
-        <Select aria-label="Status" value={status} onChange={(e) => { setStatus(e.target.value); reset(); }}>
-          <option value="">Any status</option>
-          {ORDER_STATUSES.map((s) => (
-            <option key={s} value={s}>
-              {ORDER_STATUS_LABELS[s]}
-            </option>
-          ))}
-        </Select>
-        {organisations ? (
-          <Select aria-label="Customer" value={organisationId} onChange={(e) => { setOrganisationId(e.target.value); reset(); }}>
-            <option value="">Every customer</option>
-            {organisations.map((o) => (
-              <option key={o.id} value={o.id}>
-                {o.name}
-              </option>
-            ))}
-          </Select>
-        ) : (
-          <Select aria-label="Site" value={siteId} onChange={(e) => { setSiteId(e.target.value); reset(); }}>
-            <option value="">Every site</option>
-            {sites.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </Select>
-        )}
-        <Input type="date" aria-label="Booked from" value={from} onChange={(e) => { setFrom(e.target.value); reset(); }} />
-        <Input type="date" aria-label="Booked until" value={to} onChange={(e) => { setTo(e.target.value); reset(); }} />
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
-        caption="Orders"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(r) => String(r.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="orders"
+      url="/api/orders"
+      filters={filters}
+      defaultSort={{ id: "created_at", desc: true }}
+      refetchIntervalMs={15_000}
+      caption="Orders"
+      columns={columns}
+      getRowId={(r) => String(r.id)}
+      filterBarClassName="sm:grid-cols-2 lg:grid-cols-6"
+      filterBar={
+        <>
+          <SearchFilter
+            className="lg:col-span-2"
+            label="Search orders"
+            placeholder="Search by reference, site or note"
+            value={filters.q}
+            onChange={(q) => setFilters({ q })}
+          />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={ORDER_STATUSES.map((s) => ({ value: s, label: ORDER_STATUS_LABELS[s] }))}
+            value={filters.status}
+            onChange={(status) => setFilters({ status })}
+          />
+          {organisations ? (
+            <SelectFilter
+              label="Customer"
+              anyLabel="Every customer"
+              options={organisations.map((o) => ({ value: o.id, label: o.name }))}
+              value={filters.organisationId}
+              onChange={(organisationId) => setFilters({ organisationId })}
+            />
+          ) : (
+            <SelectFilter
+              label="Site"
+              anyLabel="Every site"
+              options={sites.map((s) => ({ value: s.id, label: s.name }))}
+              value={filters.siteId}
+              onChange={(siteId) => setFilters({ siteId })}
+            />
+          )}
+          <DateFilter label="Booked from" value={filters.from} onChange={(from) => setFilters({ from })} />
+          <DateFilter label="Booked until" value={filters.to} onChange={(to) => setFilters({ to })} />
+        </>
+      }
+    />
   );
 }

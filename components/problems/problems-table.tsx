@@ -3,10 +3,8 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import { Camera } from "lucide-react";
 import Link from "next/link";
-import { useMemo, useState } from "react";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { useMemo } from "react";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { formatDateTime } from "@/lib/format";
 import { formatWait, PROBLEM_KIND_SHORT, PROBLEM_KINDS, PROBLEM_STATUS_LABELS, PROBLEM_STATUSES } from "@/lib/problems/schemas";
 import type { ProblemListRow } from "@/lib/problems/service";
@@ -30,18 +28,12 @@ export function ProblemsTable({
   initialStatus: "" | "open" | "answered";
   timeZone: string;
 }) {
-  const [q, setQ] = useState("");
-  const [status, setStatus] = useState<string>(initialStatus);
-  const [kind, setKind] = useState("");
-  const [organisationId, setOrganisationId] = useState("");
-  const table = useServerTable<ProblemListRow, Record<string, string>>({
-    queryKey: "problems",
-    url: "/api/problems",
-    defaultSort: { id: "queue" },
-    filters: { q: q.trim(), status, kind, organisationId },
-    refetchIntervalMs: 20_000,
+  const [filters, setFilters] = useTableFilters<{ q: string; status: string; kind: string; organisationId: string }>({
+    q: "",
+    status: initialStatus,
+    kind: "",
+    organisationId: "",
   });
-  const reset = () => table.setPage(1);
   const columns = useMemo<ColumnDef<ProblemListRow, unknown>[]>(() => {
     const cols: ColumnDef<ProblemListRow, unknown>[] = [
       {
@@ -128,85 +120,50 @@ export function ProblemsTable({
   }, [basePath, ordersPath, organisations, timeZone]);
 
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
-        <Input
-          type="search"
-          className="lg:col-span-2"
-          aria-label="Search problems"
-          placeholder="Search by order, set, site or words"
-          value={q}
-          onChange={(e) => {
-            setQ(e.target.value);
-            reset();
-          }}
-        />
-        <Select
-          aria-label="Status"
-          value={status}
-          onChange={(e) => {
-            setStatus(e.target.value);
-            reset();
-          }}
-        >
-          <option value="">Any status</option>
-          {PROBLEM_STATUSES.map((s) => (
-            <option key={s} value={s}>
-              {PROBLEM_STATUS_LABELS[s]}
-            </option>
-          ))}
-        </Select>
-        <Select
-          aria-label="Kind of problem"
-          value={kind}
-          onChange={(e) => {
-            setKind(e.target.value);
-            reset();
-          }}
-        >
-          <option value="">Every kind</option>
-          {PROBLEM_KINDS.map((k) => (
-            <option key={k} value={k}>
-              {PROBLEM_KIND_SHORT[k]}
-            </option>
-          ))}
-        </Select>
-        {organisations && (
-          <Select
-            aria-label="Customer"
-            value={organisationId}
-            onChange={(e) => {
-              setOrganisationId(e.target.value);
-              reset();
-            }}
-          >
-            <option value="">Every customer</option>
-            {organisations.map((o) => (
-              <option key={o.id} value={o.id}>
-                {o.name}
-              </option>
-            ))}
-          </Select>
-        )}
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
-        caption={organisations ? "Problems reported by customers" : "Problems we reported"}
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(r) => String(r.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="problems"
+      url="/api/problems"
+      filters={filters}
+      defaultSort={{ id: "queue" }}
+      refetchIntervalMs={20_000}
+      caption={organisations ? "Problems reported by customers" : "Problems we reported"}
+      columns={columns}
+      getRowId={(r) => String(r.id)}
+      filterBarClassName="sm:grid-cols-2 lg:grid-cols-5"
+      filterBar={
+        <>
+          <SearchFilter
+            className="lg:col-span-2"
+            label="Search problems"
+            placeholder="Search by order, set, site or words"
+            value={filters.q}
+            onChange={(q) => setFilters({ q })}
+          />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={PROBLEM_STATUSES.map((s) => ({ value: s, label: PROBLEM_STATUS_LABELS[s] }))}
+            value={filters.status}
+            onChange={(status) => setFilters({ status })}
+          />
+          <SelectFilter
+            label="Kind of problem"
+            anyLabel="Every kind"
+            options={PROBLEM_KINDS.map((k) => ({ value: k, label: PROBLEM_KIND_SHORT[k] }))}
+            value={filters.kind}
+            onChange={(kind) => setFilters({ kind })}
+          />
+          {organisations && (
+            <SelectFilter
+              label="Customer"
+              anyLabel="Every customer"
+              options={organisations.map((o) => ({ value: o.id, label: o.name }))}
+              value={filters.organisationId}
+              onChange={(organisationId) => setFilters({ organisationId })}
+            />
+          )}
+        </>
+      }
+    />
   );
 }

@@ -3,11 +3,9 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import { ChevronLeft, ChevronRight } from "lucide-react";
 import Link from "next/link";
-import { useMemo, useState } from "react";
+import { useMemo } from "react";
 import { Button } from "@/components/ui/button";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { formatDateTime } from "@/lib/format";
 import { SET_STATUS_LABELS, SET_STATUSES } from "@/lib/sets/schemas";
 import type { SetCustomerOption, SetListRow } from "@/lib/sets/service";
@@ -23,20 +21,8 @@ export function SetsTable({
   basePath: string;
   showCustomer: boolean;
 }) {
-  const [q, setQ] = useState("");
-  const [organisationId, setOrganisationId] = useState("");
-  const [siteId, setSiteId] = useState("");
-  const [setTypeId, setSetTypeId] = useState("");
-  const [status, setStatus] = useState("");
-  const table = useServerTable<SetListRow, Record<string, string>>({
-    queryKey: "sets",
-    url: "/api/sets",
-    defaultSort: { id: "serial" },
-    filters: { q: q.trim(), organisationId, siteId, setTypeId, status },
-    pageSize: 25,
-  });
-  const setPage = table.setPage;
-  const chosen = customers.filter((c) => !organisationId || String(c.id) === organisationId);
+  const [filters, setFilters] = useTableFilters({ q: "", organisationId: "", siteId: "", setTypeId: "", status: "" });
+  const chosen = customers.filter((c) => !filters.organisationId || String(c.id) === filters.organisationId);
   const grouped = chosen.length > 1;
   const siteCount = chosen.reduce((n, c) => n + c.sites.length, 0);
   // Someone who sees one site only (clinic staff) needs no site column.
@@ -94,121 +80,76 @@ export function SetsTable({
     return cols;
   }, [basePath, showCustomer, showSite]);
 
-  const reset = () => setPage(1);
+  // With more than one customer to choose from, their sites and set types are grouped under their names.
+  const choices = <T,>(pick: (c: SetCustomerOption) => T[], option: (item: T) => { value: number; label: string }) =>
+    grouped ? chosen.map((c) => ({ label: c.name, options: pick(c).map(option) })) : chosen.flatMap((c) => pick(c).map(option));
+
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-[1.4fr_repeat(4,1fr)]">
-        <Input
-          type="search"
-          placeholder="Serial, GS1 code or set type"
-          aria-label="Search by serial, GS1 code or set type"
-          value={q}
-          onChange={(e) => {
-            setQ(e.target.value);
-            reset();
-          }}
-        />
-        {showCustomer && (
-          <Select
-            aria-label="Customer"
-            value={organisationId}
-            onChange={(e) => {
-              setOrganisationId(e.target.value);
-              setSiteId("");
-              setSetTypeId("");
-              reset();
-            }}
-          >
-            <option value="">Every customer</option>
-            {customers.map((c) => (
-              <option key={c.id} value={c.id}>
-                {c.name}
-              </option>
-            ))}
-          </Select>
-        )}
-        {siteCount > 1 && (
-          <Select aria-label="Home site" value={siteId} onChange={(e) => { setSiteId(e.target.value); reset(); }}>
-            <option value="">Every site</option>
-            {chosen.map((c) =>
-              grouped ? (
-                <optgroup key={c.id} label={c.name}>
-                  {c.sites.map((s) => (
-                    <option key={s.id} value={s.id}>
-                      {s.name}
-                    </option>
-                  ))}
-                </optgroup>
-              ) : (
-                c.sites.map((s) => (
-                  <option key={s.id} value={s.id}>
-                    {s.name}
-                  </option>
-                ))
-              ),
-            )}
-          </Select>
-        )}
-        <Select aria-label="Set type" value={setTypeId} onChange={(e) => { setSetTypeId(e.target.value); reset(); }}>
-          <option value="">Every set type</option>
-          {chosen.map((c) =>
-            grouped ? (
-              <optgroup key={c.id} label={c.name}>
-                {c.setTypes.map((t) => (
-                  <option key={t.id} value={t.id}>
-                    {t.name} ({t.code})
-                  </option>
-                ))}
-              </optgroup>
-            ) : (
-              c.setTypes.map((t) => (
-                <option key={t.id} value={t.id}>
-                  {t.name} ({t.code})
-                </option>
-              ))
-            ),
+    <ServerTable
+      queryKey="sets"
+      url="/api/sets"
+      filters={filters}
+      defaultSort={{ id: "serial" }}
+      pageSize={25}
+      caption="Sets"
+      columns={columns}
+      getRowId={(row) => String(row.id)}
+      filterBarClassName="sm:grid-cols-2 lg:grid-cols-[1.4fr_repeat(4,1fr)]"
+      filterBar={
+        <>
+          <SearchFilter
+            label="Search by serial, GS1 code or set type"
+            placeholder="Serial, GS1 code or set type"
+            value={filters.q}
+            onChange={(q) => setFilters({ q })}
+          />
+          {showCustomer && (
+            <SelectFilter
+              label="Customer"
+              anyLabel="Every customer"
+              options={customers.map((c) => ({ value: c.id, label: c.name }))}
+              value={filters.organisationId}
+              onChange={(organisationId) => setFilters({ organisationId, siteId: "", setTypeId: "" })}
+            />
           )}
-        </Select>
-        <Select aria-label="Status" value={status} onChange={(e) => { setStatus(e.target.value); reset(); }}>
-          <option value="">Any status</option>
-          {SET_STATUSES.map((s) => (
-            <option key={s} value={s}>
-              {SET_STATUS_LABELS[s]}
-            </option>
-          ))}
-        </Select>
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <SetCards
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        onPageChange={setPage}
-        basePath={basePath}
-        showSite={showSite}
-        loading={table.isFetching}
-      />
-      <div className="hidden sm:block">
-        <DataTable
-          caption="Sets"
-          columns={columns}
-          rows={table.rows}
-          total={table.total}
-          page={table.page}
-          pageSize={table.pageSize}
-          sorting={table.sorting}
-          onSortingChange={table.setSorting}
-          onPageChange={table.setPage}
-          loading={table.isFetching}
-          getRowId={(row) => String(row.id)}
+          {siteCount > 1 && (
+            <SelectFilter
+              label="Home site"
+              anyLabel="Every site"
+              options={choices((c) => c.sites, (s) => ({ value: s.id, label: s.name }))}
+              value={filters.siteId}
+              onChange={(siteId) => setFilters({ siteId })}
+            />
+          )}
+          <SelectFilter
+            label="Set type"
+            anyLabel="Every set type"
+            options={choices((c) => c.setTypes, (t) => ({ value: t.id, label: `${t.name} (${t.code})` }))}
+            value={filters.setTypeId}
+            onChange={(setTypeId) => setFilters({ setTypeId })}
+          />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={SET_STATUSES.map((s) => ({ value: s, label: SET_STATUS_LABELS[s] }))}
+            value={filters.status}
+            onChange={(status) => setFilters({ status })}
+          />
+        </>
+      }
+      phoneView={(page) => (
+        <SetCards
+          rows={page.rows}
+          total={page.total}
+          page={page.page}
+          pageSize={page.pageSize}
+          onPageChange={page.setPage}
+          basePath={basePath}
+          showSite={showSite}
+          loading={page.loading}
         />
-      </div>
-    </div>
+      )}
+    />
   );
 }
 

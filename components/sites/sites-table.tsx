@@ -3,12 +3,10 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import { Pencil } from "lucide-react";
 import Link from "next/link";
-import { useMemo, useState } from "react";
+import { useMemo } from "react";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { formatDayHours, type Weekday } from "@/lib/sites/opening-hours";
 import type { SiteView } from "@/lib/sites/queries";
 import { SiteDialog } from "./site-dialog";
@@ -25,14 +23,7 @@ export function SitesTable({
   canManage: boolean;
   organisationId?: number;
 }) {
-  const [q, setQ] = useState("");
-  const [org, setOrg] = useState(organisationId ? String(organisationId) : "");
-  const table = useServerTable<SiteView, Record<string, string>>({
-    queryKey: "sites",
-    url: "/api/sites",
-    defaultSort: { id: organisationId ? "name" : "organisation" },
-    filters: { q: q.trim(), organisationId: org },
-  });
+  const [filters, setFilters] = useTableFilters({ q: "", organisationId: organisationId ? String(organisationId) : "" });
   const columns = useMemo<ColumnDef<SiteView, unknown>[]>(() => {
     const cols: ColumnDef<SiteView, unknown>[] = [
       {
@@ -101,33 +92,34 @@ export function SitesTable({
   }, [today, canManage, organisationId]);
 
   return (
-    <div className="space-y-4">
-      <div className={organisationId ? "grid gap-3" : "grid gap-3 sm:grid-cols-[1fr_16rem]"}>
-        <Input type="search" aria-label="Search sites" placeholder="Search by site, town, postcode or organisation" value={q} onChange={(e) => { setQ(e.target.value); table.setPage(1); }} />
-        {!organisationId && (
-          <Select aria-label="Organisation" value={org} onChange={(e) => { setOrg(e.target.value); table.setPage(1); }}>
-            <option value="">Every organisation</option>
-            {organisations.map((o) => (
-              <option key={o.id} value={o.id}>
-                {o.name}
-              </option>
-            ))}
-          </Select>
-        )}
-      </div>
-      <DataTable
-        caption="Sites"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(r) => String(r.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="sites"
+      url="/api/sites"
+      filters={filters}
+      defaultSort={{ id: organisationId ? "name" : "organisation" }}
+      caption="Sites"
+      columns={columns}
+      getRowId={(r) => String(r.id)}
+      filterBarClassName={organisationId ? undefined : "sm:grid-cols-[1fr_16rem]"}
+      filterBar={
+        <>
+          <SearchFilter
+            label="Search sites"
+            placeholder="Search by site, town, postcode or organisation"
+            value={filters.q}
+            onChange={(q) => setFilters({ q })}
+          />
+          {!organisationId && (
+            <SelectFilter
+              label="Organisation"
+              anyLabel="Every organisation"
+              options={organisations.map((o) => ({ value: o.id, label: o.name }))}
+              value={filters.organisationId}
+              onChange={(organisationId) => setFilters({ organisationId })}
+            />
+          )}
+        </>
+      }
+    />
   );
 }

@@ -112,7 +112,21 @@ export function SearchFilter({
   return <Input type="search" className={className} placeholder={placeholder ?? label} aria-label={label} value={value} onChange={(e) => onChange(e.target.value)} />;
 }
 
-/** A choice of a filter bar, with a first option for "any" (the empty value). */
+export interface FilterOption {
+  value: string | number;
+  label: string;
+}
+
+/** Options under a heading of their own (an optgroup). */
+export interface FilterOptionGroup {
+  label: string;
+  options: readonly FilterOption[];
+}
+
+/**
+ * A choice of a filter bar. With `anyLabel` its first option is "any" (the empty value); an entry
+ * with `options` of its own is shown as a group of them.
+ */
 export function SelectFilter({
   label,
   anyLabel,
@@ -122,20 +136,44 @@ export function SelectFilter({
   className,
 }: {
   label: string;
-  anyLabel: string;
-  options: readonly { value: string | number; label: string }[];
+  anyLabel?: string;
+  options: readonly (FilterOption | FilterOptionGroup)[];
   value: string;
   onChange: (value: string) => void;
   className?: string;
 }) {
+  const option = (o: FilterOption) => (
+    <option key={o.value} value={o.value}>
+      {o.label}
+    </option>
+  );
   return (
     <Select aria-label={label} className={className} value={value} onChange={(e) => onChange(e.target.value)}>
-      <option value="">{anyLabel}</option>
-      {options.map((o) => (
-        <option key={o.value} value={o.value}>
-          {o.label}
-        </option>
-      ))}
+      {anyLabel !== undefined && <option value="">{anyLabel}</option>}
+      {options.map((o, i) =>
+        "options" in o ? (
+          <optgroup key={`group-${i}`} label={o.label}>
+            {o.options.map(option)}
+          </optgroup>
+        ) : (
+          option(o)
+        ),
+      )}
     </Select>
   );
+}
+
+/** A day of a filter bar (YYYY-MM-DD, empty for none). */
+export function DateFilter({
+  label,
+  value,
+  onChange,
+  className,
+}: {
+  label: string;
+  value: string;
+  onChange: (value: string) => void;
+  className?: string;
+}) {
+  return <Input type="date" className={className} aria-label={label} value={value} onChange={(e) => onChange(e.target.value)} />;
 }

@@ -2,13 +2,11 @@
 
 import { useQueryClient } from "@tanstack/react-query";
 import type { ColumnDef } from "@tanstack/react-table";
-import { useMemo, useState } from "react";
+import { useMemo } from "react";
 import { toast } from "sonner";
 import { Badge, type BadgeTone } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
-import { DataTable } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/input";
-import { useServerTable } from "@/components/ui/use-server-table";
+import { SearchFilter, SelectFilter, ServerTable, useTableFilters } from "@/components/ui/server-table";
 import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
 import { formatDateTime } from "@/lib/format";
 import { resendInvitationAction, setUserStatusAction } from "@/lib/users/actions";
@@ -31,18 +29,7 @@ export function PeopleTable({
   currentUserId: number;
 }) {
   const queryClient = useQueryClient();
-  const [q, setQ] = useState("");
-  const [role, setRole] = useState("");
-  const [status, setStatus] = useState("");
-  const table = useServerTable<UserListRow, Record<string, string>>({
-    queryKey: "users",
-    url: "/api/users",
-    defaultSort: { id: "name" },
-    filters: { q: q.trim(), role, status },
-    pageSize: 20,
-  });
-  const setPage = table.setPage;
-
+  const [filters, setFilters] = useTableFilters({ q: "", role: "", status: "" });
   const columns = useMemo<ColumnDef<UserListRow, unknown>[]>(() => {
     const run = async (label: string, action: () => Promise<{ ok: boolean; error?: { message: string } }>) => {
       const result = await action();
@@ -125,51 +112,35 @@ export function PeopleTable({
   }, [showOrganisation, currentUserId, queryClient]);
 
   return (
-    <div className="space-y-4">
-      <div className="grid gap-3 sm:grid-cols-[1fr_12rem_12rem]">
-        <Input
-          type="search"
-          placeholder="Search by name or e-mail"
-          aria-label="Search by name or e-mail"
-          value={q}
-          onChange={(e) => {
-            setQ(e.target.value);
-            setPage(1);
-          }}
-        />
-        <Select aria-label="Role" value={role} onChange={(e) => { setRole(e.target.value); setPage(1); }}>
-          <option value="">Every role</option>
-          {roles.map((r) => (
-            <option key={r} value={r}>
-              {ROLE_LABELS[r]}
-            </option>
-          ))}
-        </Select>
-        <Select aria-label="Status" value={status} onChange={(e) => { setStatus(e.target.value); setPage(1); }}>
-          <option value="">Any status</option>
-          <option value="active">Active</option>
-          <option value="invited">Invited</option>
-          <option value="disabled">Switched off</option>
-        </Select>
-      </div>
-      {table.error && (
-        <p role="alert" className="text-sm text-danger-700">
-          {table.error.message}
-        </p>
-      )}
-      <DataTable
-        caption="People"
-        columns={columns}
-        rows={table.rows}
-        total={table.total}
-        page={table.page}
-        pageSize={table.pageSize}
-        sorting={table.sorting}
-        onSortingChange={table.setSorting}
-        onPageChange={table.setPage}
-        loading={table.isFetching}
-        getRowId={(row) => String(row.id)}
-      />
-    </div>
+    <ServerTable
+      queryKey="users"
+      url="/api/users"
+      filters={filters}
+      defaultSort={{ id: "name" }}
+      pageSize={20}
+      caption="People"
+      columns={columns}
+      getRowId={(row) => String(row.id)}
+      filterBarClassName="sm:grid-cols-[1fr_12rem_12rem]"
+      filterBar={
+        <>
+          <SearchFilter label="Search by name or e-mail" value={filters.q} onChange={(q) => setFilters({ q })} />
+          <SelectFilter
+            label="Role"
+            anyLabel="Every role"
+            options={roles.map((r) => ({ value: r, label: ROLE_LABELS[r] }))}
+            value={filters.role}
+            onChange={(role) => setFilters({ role })}
+          />
+          <SelectFilter
+            label="Status"
+            anyLabel="Any status"
+            options={(["active", "invited", "disabled"] as const).map((s) => ({ value: s, label: STATUS[s].label }))}
+            value={filters.status}
+            onChange={(status) => setFilters({ status })}
+          />
+        </>
+      }
+    />
   );
 }
