@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import Link from "next/link";
+import { StationLinks } from "@/components/stations/station-links";
 import { SterilisingStation } from "@/components/sterilising/sterilising-station";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
@@ -18,17 +18,12 @@ export default async function SterilisingPage() {
         title="Sterilising"
         description="Choose the steriliser, scan every packed set into its load, start it, and finish it with the steriliser's record and the indicator results."
         actions={
-          <div className="flex gap-4">
-            <Link href="/unit/steriliser-tests" className="text-sm font-medium text-lagoon-700 underline">
-              Daily tests
-            </Link>
-            <Link href="/unit/loads" className="text-sm font-medium text-lagoon-700 underline">
-              Steriliser loads
-            </Link>
-            <Link href="/unit/stations" className="text-sm font-medium text-lagoon-700 underline">
-              Other stations
-            </Link>
-          </div>
+          <StationLinks
+            links={[
+              { href: "/unit/steriliser-tests", label: "Daily tests" },
+              { href: "/unit/loads", label: "Steriliser loads" },
+            ]}
+          />
         }
       />
       <SterilisingStation initialSterilisers={sterilisers} />

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import Link from "next/link";
+import { StationLinks } from "@/components/stations/station-links";
 import { WashingStation } from "@/components/washing/washing-station";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
@@ -17,16 +17,7 @@ export default async function WashingPage() {
       <PageHeader
         title="Washing"
         description="Choose the washer, scan every set into its batch, start it, and close it with the washer's time and temperature record."
-        actions={
-          <div className="flex gap-4">
-            <Link href="/unit/batches" className="text-sm font-medium text-lagoon-700 underline">
-              Washer batches
-            </Link>
-            <Link href="/unit/stations" className="text-sm font-medium text-lagoon-700 underline">
-              Other stations
-            </Link>
-          </div>
-        }
+        actions={<StationLinks links={[{ href: "/unit/batches", label: "Washer batches" }]} />}
       />
       <WashingStation initialWashers={washers} />
     </>
