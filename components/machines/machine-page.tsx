@@ -97,12 +97,15 @@ export async function MachinePage({ user, rawId }: { user: SessionUser; rawId: s
               <Row label="Status">
                 <Badge tone={machine.active ? "ok" : "neutral"}>{machine.active ? "In use" : "Switched off"}</Badge>
               </Row>
-              {machine.openBatch && (
-                <Row label="Open batch">
-                  <Link href={`/unit/batches/${machine.openBatch.id}`} className="text-lagoon-700 underline-offset-2 hover:underline">
-                    {machine.openBatch.number}
+              {machine.openRun && (
+                <Row label={machine.openRun.kind === "batch" ? "Open batch" : "Open load"}>
+                  <Link
+                    href={machine.openRun.kind === "batch" ? `/unit/batches/${machine.openRun.id}` : `/unit/loads/${machine.openRun.id}`}
+                    className="text-lagoon-700 underline-offset-2 hover:underline"
+                  >
+                    {machine.openRun.number}
                   </Link>{" "}
-                  <BatchStatusBadge status={machine.openBatch.status} />
+                  <BatchStatusBadge status={machine.openRun.status} />
                 </Row>
               )}
               <Row label="Recorded">{formatDateTime(machine.createdAt)}</Row>

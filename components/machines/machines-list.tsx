@@ -46,9 +46,9 @@ export function MachinesList({ machines }: { machines: MachineListRow[] }) {
                       <td className="px-4 py-3 tabular-nums">{m.programCount}</td>
                       <td className="space-x-2 whitespace-nowrap px-4 py-3">
                         <Badge tone={m.active ? "ok" : "neutral"}>{m.active ? "In use" : "Switched off"}</Badge>
-                        {m.openBatch && (
+                        {m.openRun && (
                           <span className="whitespace-nowrap text-xs text-muted">
-                            <BatchStatusBadge status={m.openBatch.status} /> {m.openBatch.number}
+                            <BatchStatusBadge status={m.openRun.status} /> {m.openRun.number}
                           </span>
                         )}
                       </td>

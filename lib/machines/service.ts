@@ -44,8 +44,30 @@ export interface MachineListRow {
   chamber: { widthMm: number; heightMm: number; depthMm: number } | null;
   active: boolean;
   programCount: number;
-  /** The washer's batch that is loading or running, if any. */
-  openBatch: { id: number; number: string; status: "loading" | "running" } | null;
+  /** The washer batch or steriliser load that is loading or running on it, if any. */
+  openRun: OpenMachineRun | null;
+}
+
+export interface OpenMachineRun {
+  kind: "batch" | "load";
+  id: number;
+  number: string;
+  status: "loading" | "running";
+}
+
+/** The loading or running washer batches and steriliser loads of these machines (all, when no ids are given), by machine id. */
+async function openRunsOf(db: Db, machineIds?: number[]): Promise<Map<number, OpenMachineRun>> {
+  let batches = db.selectFrom("washer_batches").select(["id", "number", "status", "machine_id"]).where("status", "in", ["loading", "running"]);
+  let loads = db.selectFrom("steriliser_loads").select(["id", "number", "status", "machine_id"]).where("status", "in", ["loading", "running"]);
+  if (machineIds) {
+    if (machineIds.length === 0) return new Map();
+    batches = batches.where("machine_id", "in", machineIds);
+    loads = loads.where("machine_id", "in", machineIds);
+  }
+  const runs = new Map<number, OpenMachineRun>();
+  for (const b of await batches.execute()) runs.set(b.machine_id, { kind: "batch", id: b.id, number: b.number, status: b.status as "loading" | "running" });
+  for (const l of await loads.execute()) runs.set(l.machine_id, { kind: "load", id: l.id, number: l.number, status: l.status as "loading" | "running" });
+  return runs;
 }
 
 export interface MachineDetail extends MachineListRow {
@@ -98,7 +120,7 @@ function chamberAndCapacity(input: MachineFields): { chamber: MachineListRow["ch
   return { chamber, capacityStu: input.capacityStu ?? (fits > 0 ? fits : null) };
 }
 
-/** Every machine, by kind and code, with its program count and open washer batch. */
+/** Every machine, by kind and code, with its program count and open batch or load. */
 export async function listMachines(db: Db, filter: { kind?: MachineKind; activeOnly?: boolean } = {}): Promise<MachineListRow[]> {
   let query = db
     .selectFrom("machines")
@@ -120,13 +142,8 @@ export async function listMachines(db: Db, filter: { kind?: MachineKind; activeO
   if (filter.kind) query = query.where("machines.kind", "=", filter.kind);
   if (filter.activeOnly) query = query.where("machines.active", "=", 1);
   const rows = await query.execute();
-  const open = await db
-    .selectFrom("washer_batches")
-    .select(["id", "number", "status", "machine_id"])
-    .where("status", "in", ["loading", "running"])
-    .execute();
+  const open = await openRunsOf(db);
   return rows.map((r) => {
-    const batch = open.find((b) => b.machine_id === r.id);
     return {
       id: r.id,
       kind: r.kind,
@@ -138,7 +155,7 @@ export async function listMachines(db: Db, filter: { kind?: MachineKind; activeO
       chamber: chamberOf(r),
       active: r.active === 1,
       programCount: Number(r.program_count ?? 0),
-      openBatch: batch ? { id: batch.id, number: batch.number, status: batch.status as "loading" | "running" } : null,
+      openRun: open.get(r.id) ?? null,
     };
   });
 }
@@ -148,12 +165,7 @@ export async function getMachine(db: Db, id: number): Promise<MachineDetail> {
   const row = await db.selectFrom("machines").selectAll().where("id", "=", id).executeTakeFirst();
   if (!row) throw notFound("That machine");
   const programs = await db.selectFrom("programs").selectAll().where("machine_id", "=", id).orderBy("code").execute();
-  const open = await db
-    .selectFrom("washer_batches")
-    .select(["id", "number", "status"])
-    .where("machine_id", "=", id)
-    .where("status", "in", ["loading", "running"])
-    .executeTakeFirst();
+  const open = (await openRunsOf(db, [id])).get(id) ?? null;
   return {
     id: row.id,
     kind: row.kind,
@@ -165,7 +177,7 @@ export async function getMachine(db: Db, id: number): Promise<MachineDetail> {
     chamber: chamberOf(row),
     active: row.active === 1,
     programCount: programs.length,
-    openBatch: open ? { id: open.id, number: open.number, status: open.status as "loading" | "running" } : null,
+    openRun: open,
     programs: programs.map(toProgramView),
     createdAt: row.created_at,
     updatedAt: row.updated_at,
@@ -225,7 +237,7 @@ export async function createMachine(db: Kysely<Database>, user: SessionUser, inp
   });
 }
 
-/** Changes a machine. Its kind is fixed once it has programs; a washer with an open batch stays active. */
+/** Changes a machine. Its kind is fixed once it has programs; a machine with an open batch or load stays active. */
 export async function updateMachine(
   db: Kysely<Database>,
   user: SessionUser,
@@ -242,11 +254,10 @@ export async function updateMachine(
         kind: ["A machine with programs keeps its kind; add a new machine instead."],
       });
     }
-    if (before.openBatch && (!input.active || input.code !== before.code)) {
-      throw new AppError(
-        "conflict",
-        `Batch ${before.openBatch.number} is ${before.openBatch.status} on ${before.code}: close or abort it before switching the washer off or changing its code.`,
-      );
+    const run = before.openRun;
+    if (run && (!input.active || input.code !== before.code)) {
+      const [what, finish, machine] = run.kind === "batch" ? ["Batch", "close or abort it", "washer"] : ["Load", "finish or abort it", "steriliser"];
+      throw new AppError("conflict", `${what} ${run.number} is ${run.status} on ${before.code}: ${finish} before switching the ${machine} off or changing its code.`);
     }
     await trx
       .updateTable("machines")
@@ -264,7 +275,7 @@ export async function updateMachine(
       })
       .where("id", "=", input.id)
       .execute();
-    const { programs: _programs, openBatch: _open, ...was } = before;
+    const { programs: _programs, openRun: _open, ...was } = before;
     await recordAudit(
       trx,
       { actorUserId: user.id, action: "machine.updated", entity: "machine", entityId: input.id, details: { before: was, after: input } },

@@ -12,6 +12,7 @@ import type { SessionUser } from "@/lib/auth/session-user";
 import { parseFlags } from "@/lib/catalogue/set-types";
 import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { toLocalDateTimeText } from "@/lib/local-time";
+import { getMachine, listMachines, updateMachine } from "@/lib/machines/service";
 import { clearFault, recordEntry } from "@/lib/monitoring/service";
 import type { LoadView } from "@/lib/sterilising/loads";
 import type { BatchView } from "@/lib/washing/service";
@@ -173,6 +174,25 @@ describe("a steriliser with an open fault", () => {
     const again = await post(openLoadRoute, "/api/stations/sterilising/loads", m);
     expect(again.status).toBe(409);
     expect(again.body.error?.message).toBe("TU3 is switched off; choose another steriliser.");
+  });
+});
+
+describe("switching a steriliser off", () => {
+  it("is refused while a load is open on it, names the load, and writes nothing; the machine shows its open load", async () => {
+    const m = await steriliser("TU4");
+    const opened = await post(openLoadRoute, "/api/stations/sterilising/loads", m);
+    const load = opened.body.load as LoadView;
+    const detail = await getMachine(t.db, m.machineId);
+    expect(detail.openRun).toEqual({ kind: "load", id: load.id, number: load.number, status: "loading" });
+    expect((await listMachines(t.db, { kind: "steriliser" })).find((x) => x.id === m.machineId)?.openRun?.number).toBe(load.number);
+    const admin = await sessionUser(t.db, seed.users["admin@larkmoor.example"]!);
+    const before = await countRows(t.db, ["machines", "audit_log"]);
+    const fields = { kind: "steriliser" as const, code: "TU4", name: detail.name, serialNumber: null, capacityStu: detail.capacityStu, active: false, chamberWidthMm: null, chamberHeightMm: null, chamberDepthMm: null };
+    await expect(updateMachine(t.db, admin, { ...fields, id: m.machineId })).rejects.toThrow(
+      `Load ${load.number} is loading on TU4: finish or abort it before switching the steriliser off or changing its code.`,
+    );
+    expect(await countRows(t.db, ["machines", "audit_log"])).toEqual(before);
+    expect((await getMachine(t.db, m.machineId)).active).toBe(true);
   });
 });
 

@@ -101,7 +101,7 @@ describe("machines", () => {
     expect(inUse).toMatchObject({ ok: false, error: { code: "conflict" } });
     const renamed = await updateMachineAction({ ...machine({ code: "W2", name: "Chamber washer 2 (left)", serialNumber: "" }), id: w2 });
     expect(renamed).toMatchObject({ ok: true });
-    expect(await getMachine(t.db, w2)).toMatchObject({ name: "Chamber washer 2 (left)", serialNumber: null, openBatch: { number: batch.number } });
+    expect(await getMachine(t.db, w2)).toMatchObject({ name: "Chamber washer 2 (left)", serialNumber: null, openRun: { kind: "batch", number: batch.number } });
   });
 
   it("refuses a technician (machines.view only) and clinic users", async () => {
