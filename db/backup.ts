@@ -1,4 +1,4 @@
-// Online backup and restore of the SQLite database and the uploads folder.
+// Online backup and restore of the SQLite database and the uploads (folder or S3 bucket).
 //
 //   npm run backup                      → backups/steamlane-<UTC time>/ (or BACKUP_DIR/…)
 //   npm run backup -- --out /srv/backups
@@ -12,39 +12,50 @@
 // names is already on disk. manifest.json lists the row count of every table and every file with
 // its hash; restore checks them all before it puts anything in place.
 //
+// With STORAGE_DRIVER=s3 the uploads are read from the bucket instead, the same way (only the
+// objects the snapshot names, each hash-checked), and restore puts them back into the bucket the
+// settings name, reading each back to check its hash, before it puts the database in place.
+// Objects in the bucket that the restored database does not name are left there.
+//
 // With DATABASE_URL (PostgreSQL) this script refuses: back that database up with pg_dump.
 import { createHash } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import SQLite from "better-sqlite3";
+import { parseServerEnv, type StorageSettings } from "@/lib/env";
+// safeKey: a storage key as the app writes it ("2026-12/<uuid>"), never a path that leaves the folder.
+import { checkStorageKey as safeKey, createFileStore, type FileStore } from "@/lib/storage/store";
 
 export interface BackupManifest {
   format: "steamlane-backup-1";
   createdAt: string;
   database: { file: string; sha256: string; tables: Record<string, number> };
-  files: { storageKey: string; sha256: string; sizeBytes: number }[];
+  files: { storageKey: string; sha256: string; sizeBytes: number; contentType?: string }[];
 }
 
 export interface DataLocation {
   databasePath: string;
   uploadsDir: string;
+  /** Where the uploads live; the uploads folder when absent. */
+  storage?: StorageSettings;
 }
 
 /** Where the app keeps its data, from the same variables the app reads. */
 export function configuredLocation(env: NodeJS.ProcessEnv = process.env): DataLocation {
   if (env.DATABASE_URL) throw new Error("DATABASE_URL points at PostgreSQL: back that database up with pg_dump; this script copies the SQLite file.");
   const dataDir = env.STEAMLANE_DATA_DIR || "data";
-  return { databasePath: env.DATABASE_PATH || path.join(dataDir, "steamlane.db"), uploadsDir: env.UPLOADS_DIR || path.join(dataDir, "uploads") };
+  const location = { databasePath: env.DATABASE_PATH || path.join(dataDir, "steamlane.db"), uploadsDir: env.UPLOADS_DIR || path.join(dataDir, "uploads") };
+  // The S3 settings are checked as the app checks them (a missing S3_BUCKET is named).
+  return env.STORAGE_DRIVER === "s3" ? { ...location, storage: parseServerEnv(env).storage } : location;
+}
+
+/** The bucket's store when the uploads live in S3; null for the uploads folder, which is copied file by file. */
+function bucketOf(location: DataLocation): FileStore | null {
+  return location.storage?.driver === "s3" ? createFileStore(location.storage) : null;
 }
 
 function sha256File(file: string): string {
   return createHash("sha256").update(fs.readFileSync(file)).digest("hex");
-}
-
-/** A storage key as the app writes it ("2026-12/<uuid>"): never a path that leaves the folder. */
-function safeKey(key: string): string {
-  if (!/^[A-Za-z0-9_-]+(\/[A-Za-z0-9_.-]+)*$/.test(key) || key.split("/").includes("..")) throw new Error(`Refusing the storage key "${key}".`);
-  return key;
 }
 
 function tableCounts(db: SQLite.Database): Record<string, number> {
@@ -53,7 +64,7 @@ function tableCounts(db: SQLite.Database): Record<string, number> {
 }
 
 /** Takes a consistent copy of the database and its uploads into a new timestamped folder; answers the folder. */
-export function backupData(location: DataLocation, outDir: string, now = new Date()): string {
+export async function backupData(location: DataLocation, outDir: string, now = new Date()): Promise<string> {
   if (!fs.existsSync(location.databasePath)) throw new Error(`There is no database at ${location.databasePath}.`);
   const stamp = now.toISOString().replace(/[-:]/g, "").replace(/\.\d+Z$/, "Z");
   const target = path.join(outDir, `steamlane-${stamp}`);
@@ -73,24 +84,31 @@ export function backupData(location: DataLocation, outDir: string, now = new Dat
 
   const snapshot = new SQLite(copy, { readonly: true });
   let tables: Record<string, number>;
-  let rows: { storage_key: string; sha256: string; size_bytes: number }[];
+  let rows: { storage_key: string; sha256: string; size_bytes: number; content_type: string }[];
   try {
     tables = tableCounts(snapshot);
-    rows = snapshot.prepare("select storage_key, sha256, size_bytes from files order by id").all() as typeof rows;
+    rows = snapshot.prepare("select storage_key, sha256, size_bytes, content_type from files order by id").all() as typeof rows;
   } finally {
     snapshot.close();
   }
   const files: BackupManifest["files"] = [];
+  const bucket = bucketOf(location);
   for (const row of rows) {
     const key = safeKey(row.storage_key);
-    const from = path.join(location.uploadsDir, key);
-    if (!fs.existsSync(from)) throw new Error(`The upload ${key} named by the database is missing from ${location.uploadsDir}.`);
     const to = path.join(partial, "uploads", key);
     fs.mkdirSync(path.dirname(to), { recursive: true });
-    fs.copyFileSync(from, to);
+    if (bucket) {
+      const bytes = await bucket.get(key);
+      if (!bytes) throw new Error(`The upload ${key} named by the database is missing from ${bucket.description}.`);
+      fs.writeFileSync(to, bytes, { flag: "wx" });
+    } else {
+      const from = path.join(location.uploadsDir, key);
+      if (!fs.existsSync(from)) throw new Error(`The upload ${key} named by the database is missing from ${location.uploadsDir}.`);
+      fs.copyFileSync(from, to);
+    }
     const hash = sha256File(to);
     if (hash !== row.sha256) throw new Error(`The upload ${key} does not match the hash recorded at upload (${row.sha256}); it was not backed up.`);
-    files.push({ storageKey: key, sha256: hash, sizeBytes: fs.statSync(to).size });
+    files.push({ storageKey: key, sha256: hash, sizeBytes: fs.statSync(to).size, contentType: row.content_type });
   }
   const manifest: BackupManifest = {
     format: "steamlane-backup-1",
@@ -128,18 +146,38 @@ export function verifyBackup(folder: string): BackupManifest {
   return manifest;
 }
 
-/** Restores a verified backup into the data location; refuses to replace an existing database unless forced. */
-export function restoreData(folder: string, location: DataLocation, options: { force?: boolean } = {}): BackupManifest {
-  const manifest = verifyBackup(folder);
-  if (fs.existsSync(location.databasePath) && !options.force) {
-    throw new Error(`${location.databasePath} already exists. Stop the app and pass --force to replace it (its uploads folder is replaced too).`);
+/**
+ * Puts the backup's uploads into the bucket and reads each back to check its hash. Objects under
+ * the same keys are replaced (a key names the same bytes for good); other objects stay.
+ */
+async function restoreToBucket(folder: string, manifest: BackupManifest, bucket: FileStore): Promise<void> {
+  for (const f of manifest.files) {
+    const key = safeKey(f.storageKey);
+    await bucket.put(key, fs.readFileSync(path.join(folder, "uploads", key)), f.contentType ?? "application/octet-stream", { replace: true });
+    const back = await bucket.get(key);
+    if (!back || createHash("sha256").update(back).digest("hex") !== f.sha256) {
+      throw new Error(`The upload ${key} did not read back from ${bucket.description} as it was put; the database was not restored.`);
+    }
   }
+}
+
+/** Restores a verified backup into the data location; refuses to replace an existing database unless forced. */
+export async function restoreData(folder: string, location: DataLocation, options: { force?: boolean } = {}): Promise<BackupManifest> {
+  const manifest = verifyBackup(folder);
+  const bucket = bucketOf(location);
+  if (fs.existsSync(location.databasePath) && !options.force) {
+    const uploads = bucket ? `the uploads are put back into ${bucket.description}` : "its uploads folder is replaced too";
+    throw new Error(`${location.databasePath} already exists. Stop the app and pass --force to replace it (${uploads}).`);
+  }
+  // Into the bucket first: a database is put in place only once every file it names is there.
+  if (bucket) await restoreToBucket(folder, manifest, bucket);
   fs.mkdirSync(path.dirname(path.resolve(location.databasePath)), { recursive: true });
   // Into place beside the target first, then renamed, so an interrupted restore leaves no half file.
   const incoming = `${location.databasePath}.restoring`;
   fs.copyFileSync(path.join(folder, manifest.database.file), incoming);
   for (const suffix of ["-wal", "-shm"]) fs.rmSync(`${location.databasePath}${suffix}`, { force: true });
   fs.renameSync(incoming, location.databasePath);
+  if (bucket) return manifest;
   const uploadsIncoming = `${location.uploadsDir}.restoring`;
   fs.rmSync(uploadsIncoming, { recursive: true, force: true });
   fs.mkdirSync(uploadsIncoming, { recursive: true });
@@ -153,7 +191,7 @@ export function restoreData(folder: string, location: DataLocation, options: { f
   return manifest;
 }
 
-function main(argv: string[]) {
+async function main(argv: string[]) {
   const [command, ...rest] = argv;
   const flag = (name: string) => {
     const i = rest.indexOf(name);
@@ -162,25 +200,24 @@ function main(argv: string[]) {
   const location = configuredLocation();
   if (command === "backup") {
     const out = flag("--out") ?? process.env.BACKUP_DIR ?? "backups";
-    const folder = backupData(location, out);
+    const folder = await backupData(location, out);
     const manifest = verifyBackup(folder);
     const rows = Object.values(manifest.database.tables).reduce((a, b) => a + b, 0);
     console.log(`Backed up ${rows} rows in ${Object.keys(manifest.database.tables).length} tables and ${manifest.files.length} uploads to ${folder}`);
   } else if (command === "restore") {
     const folder = rest.find((a) => !a.startsWith("--"));
     if (!folder) throw new Error("Name the backup folder: npm run restore -- backups/steamlane-20261201T020000Z");
-    const manifest = restoreData(folder, location, { force: rest.includes("--force") });
-    console.log(`Restored the backup of ${manifest.createdAt} (${manifest.files.length} uploads) into ${location.databasePath}`);
+    const manifest = await restoreData(folder, location, { force: rest.includes("--force") });
+    const uploads = location.storage?.driver === "s3" ? ` and the S3 bucket ${location.storage.bucket}` : "";
+    console.log(`Restored the backup of ${manifest.createdAt} (${manifest.files.length} uploads) into ${location.databasePath}${uploads}`);
   } else {
     throw new Error("Use: tsx db/backup.ts backup [--out DIR] | restore <folder> [--force]");
   }
 }
 
 if (process.argv[1] && path.resolve(process.argv[1]) === path.resolve(__filename)) {
-  try {
-    main(process.argv.slice(2));
-  } catch (error) {
+  main(process.argv.slice(2)).catch((error: unknown) => {
     console.error(error instanceof Error ? error.message : error);
     process.exit(1);
-  }
+  });
 }

@@ -13,6 +13,16 @@ const serverEnvSchema = z.object({
     .regex(/^postgres(ql)?:\/\/\S+$/, "must be a postgres:// or postgresql:// address")
     .optional(),
   UPLOADS_DIR: z.string().min(1).optional(),
+  /** Where uploads live: "disk" (the uploads folder) or "s3" (a bucket of S3 or an S3-compatible service). */
+  STORAGE_DRIVER: z.enum(["disk", "s3"]).default("disk"),
+  S3_BUCKET: z.string().min(1).optional(),
+  S3_REGION: z.string().min(1).optional(),
+  /** Only for an S3-compatible service; without it the SDK talks to AWS in S3_REGION. */
+  S3_ENDPOINT: z.string().regex(/^https?:\/\/[^\s/]+(\/\S*)?$/, "must be an http:// or https:// address, e.g. https://storage.example.net").optional(),
+  S3_FORCE_PATH_STYLE: z.enum(["true", "false"]).default("false").transform((v) => v === "true"),
+  /** Both or neither; without them the SDK's own chain (instance role, AWS_* variables) supplies credentials. */
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
   /** Public address of the app, used in e-mailed links. */
   APP_URL: z.string().url().default("http://localhost:3000"),
   NEXTAUTH_SECRET: z.string().min(16).optional(),
@@ -45,30 +55,72 @@ const serverEnvSchema = z.object({
     .string()
     .regex(/^\d{4,12}$/, "must be the unit's GS1 Company Prefix: 4 to 12 digits")
     .default("9521234"),
+}).superRefine((env, ctx) => {
+  if (env.STORAGE_DRIVER !== "s3") return;
+  const missing = (name: "S3_BUCKET" | "S3_REGION", what: string) =>
+    ctx.addIssue({ code: "custom", path: [name], message: `required when STORAGE_DRIVER=s3: ${what}` });
+  if (!env.S3_BUCKET) missing("S3_BUCKET", "the bucket that holds the uploads");
+  if (!env.S3_REGION) missing("S3_REGION", "the bucket's region (any name the S3-compatible service accepts, e.g. us-east-1)");
+  if (Boolean(env.S3_ACCESS_KEY_ID) !== Boolean(env.S3_SECRET_ACCESS_KEY)) {
+    const absent = env.S3_ACCESS_KEY_ID ? "S3_SECRET_ACCESS_KEY" : "S3_ACCESS_KEY_ID";
+    ctx.addIssue({ code: "custom", path: [absent], message: "set S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY together, or neither" });
+  }
 });
+
+/** Where uploads are kept, from STORAGE_DRIVER and the S3_* settings. */
+export type StorageSettings =
+  | { driver: "disk"; dir: string }
+  | {
+      driver: "s3";
+      bucket: string;
+      region: string;
+      endpoint?: string;
+      forcePathStyle: boolean;
+      credentials?: { accessKeyId: string; secretAccessKey: string };
+    };
 
 export type ServerEnv = z.infer<typeof serverEnvSchema> & {
   databasePath: string;
   uploadsDir: string;
+  storage: StorageSettings;
 };
 
 let cached: ServerEnv | undefined;
 
 /** The parsed environment; throws with the list of bad variables when one is wrong. */
 export function serverEnv(): ServerEnv {
-  if (cached) return cached;
-  const parsed = serverEnvSchema.safeParse(process.env);
+  cached ??= parseServerEnv(process.env);
+  return cached;
+}
+
+/** Parses the given variables as `serverEnv` does, without caching (scripts handed an environment). */
+export function parseServerEnv(source: Record<string, string | undefined>): ServerEnv {
+  const parsed = serverEnvSchema.safeParse(source);
   if (!parsed.success) {
     const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
     throw new Error(`Bad environment configuration: ${problems}`);
   }
   const env = parsed.data;
-  cached = {
+  const uploadsDir = env.UPLOADS_DIR ?? path.join(env.STEAMLANE_DATA_DIR, "uploads");
+  return {
     ...env,
     databasePath: env.DATABASE_PATH ?? path.join(env.STEAMLANE_DATA_DIR, "steamlane.db"),
-    uploadsDir: env.UPLOADS_DIR ?? path.join(env.STEAMLANE_DATA_DIR, "uploads"),
+    uploadsDir,
+    storage:
+      env.STORAGE_DRIVER === "s3"
+        ? {
+            driver: "s3",
+            bucket: env.S3_BUCKET!,
+            region: env.S3_REGION!,
+            endpoint: env.S3_ENDPOINT,
+            forcePathStyle: env.S3_FORCE_PATH_STYLE,
+            credentials:
+              env.S3_ACCESS_KEY_ID && env.S3_SECRET_ACCESS_KEY
+                ? { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY }
+                : undefined,
+          }
+        : { driver: "disk", dir: uploadsDir },
   };
-  return cached;
 }
 
 /** Forget the parsed environment (tests change variables between files). */

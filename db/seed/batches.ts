@@ -1,6 +1,4 @@
 import { createHash } from "node:crypto";
-import fs from "node:fs/promises";
-import path from "node:path";
 import { sql, type Transaction } from "kysely";
 import type { Database } from "@/db/schema";
 import { parseFlags } from "@/lib/catalogue/set-types";
@@ -11,6 +9,7 @@ import { checkWasherBatch } from "@/lib/cycles/washer";
 import { serverEnv } from "@/lib/env";
 import { washerRequirementOf } from "@/lib/machines/requirements";
 import { toStoredFigures } from "@/lib/washing/figures";
+import { fileStore } from "@/lib/storage/store";
 import { batchNumberPrefix, nextBatchNumber } from "@/lib/washing/numbering";
 import type { SeedResult } from "./demo";
 
@@ -101,9 +100,7 @@ async function storeRecord(trx: Transaction<Database>, csv: string, name: string
   const bytes = Buffer.from(csv, "utf8");
   const sha256 = createHash("sha256").update(bytes).digest("hex");
   const key = `demo/${sha256}`;
-  const target = path.join(path.resolve(serverEnv().uploadsDir), key);
-  await fs.mkdir(path.dirname(target), { recursive: true });
-  await fs.writeFile(target, bytes);
+  await fileStore().put(key, bytes, "text/csv", { replace: true });
   const { id } = await trx
     .insertInto("files")
     .values({

@@ -1,11 +1,9 @@
 import { createHash } from "node:crypto";
-import fs from "node:fs/promises";
-import path from "node:path";
 import type { Transaction } from "kysely";
 import PDFDocument from "pdfkit";
 import type { Database } from "@/db/schema";
 import type { Packaging, ProcessingFlag, SetClass, SterilisationMethod } from "@/lib/catalogue/vocabulary";
-import { serverEnv } from "@/lib/env";
+import { fileStore } from "@/lib/storage/store";
 import type { SeedResult } from "./demo";
 
 // The demo's set catalogues: every customer's set types with generic contents lists, weights and
@@ -1585,7 +1583,7 @@ export function renderDemoIfu(setType: DemoSetType, organisationName: string): P
   });
 }
 
-/** Stores a PDF in the uploads folder and records it as an "ifu" file of the organisation. */
+/** Stores a PDF in the file store and records it as an "ifu" file of the organisation. */
 async function storeIfu(
   trx: Transaction<Database>,
   input: { bytes: Buffer; originalName: string; organisationId: number; uploadedBy: number | null },
@@ -1594,9 +1592,7 @@ async function storeIfu(
   const sha256 = createHash("sha256").update(input.bytes).digest("hex");
   // A key derived from the content: the same demo document always lands in the same place.
   const key = `demo/${sha256}`;
-  const target = path.join(path.resolve(serverEnv().uploadsDir), key);
-  await fs.mkdir(path.dirname(target), { recursive: true });
-  await fs.writeFile(target, input.bytes);
+  await fileStore().put(key, input.bytes, "application/pdf", { replace: true });
   const { id } = await trx
     .insertInto("files")
     .values({

@@ -1,6 +1,4 @@
 import { createHash } from "node:crypto";
-import fs from "node:fs/promises";
-import path from "node:path";
 import { format, subDays } from "date-fns";
 import { tz } from "@date-fns/tz";
 import { sql, type Transaction } from "kysely";
@@ -16,6 +14,7 @@ import { recallMail } from "@/lib/mail/templates";
 import type { LoadFigures } from "@/lib/sterilising/checks";
 import { DEFAULT_LEAK_LIMIT_KPA_MIN } from "@/lib/sterilising/settings";
 import { DEFAULT_SHELF_LIFE_RULES, expiryFor, type StorageKind } from "@/lib/sterilising/shelf-life";
+import { fileStore } from "@/lib/storage/store";
 import { batchNumberPrefix, nextBatchNumber } from "@/lib/washing/numbering";
 import type { SeedResult } from "./demo";
 
@@ -83,9 +82,7 @@ async function storeRecord(trx: Transaction<Database>, csv: string, name: string
   const bytes = Buffer.from(csv, "utf8");
   const sha256 = createHash("sha256").update(bytes).digest("hex");
   const key = `demo/${sha256}`;
-  const target = path.join(path.resolve(serverEnv().uploadsDir), key);
-  await fs.mkdir(path.dirname(target), { recursive: true });
-  await fs.writeFile(target, bytes);
+  await fileStore().put(key, bytes, "text/csv", { replace: true });
   const { id } = await trx
     .insertInto("files")
     .values({ organisation_id: null, purpose: "cycle_record", original_name: name, content_type: "text/csv", size_bytes: bytes.length, sha256, storage_key: key, uploaded_by: uploadedBy, created_at: at })

@@ -1,18 +1,16 @@
 import "server-only";
 import { createHash, randomUUID } from "node:crypto";
-import fs from "node:fs/promises";
-import path from "node:path";
 import type { Kysely, Transaction } from "kysely";
 import type { Database, FileRow } from "@/db/schema";
 import { tenantScope } from "@/lib/auth/scope";
 import type { SessionUser } from "@/lib/auth/session-user";
-import { serverEnv } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { CONTENT_TYPES, describeKinds, type FileKind, sniffFileKind } from "./content-type";
+import { fileStore } from "./store";
 
-// Uploads on local disk under the uploads folder. The storage key is made here from a random id;
-// no name or path a caller supplies ever reaches the file system. Files are read back only
-// through `readFileFor`, which applies the tenant scope.
+// Uploads, kept by the configured store (./store.ts: the uploads folder, or an S3 bucket). The
+// storage key is made here from a random id; no name or path a caller supplies ever reaches the
+// store. Files are read back only through `readFileFor`, which applies the tenant scope.
 
 export const DEFAULT_MAX_BYTES = 10 * 1024 * 1024;
 
@@ -31,10 +29,6 @@ export function isUploadPurpose(value: string): value is UploadPurpose {
   return Object.hasOwn(UPLOAD_PURPOSES, value);
 }
 
-function uploadsRoot(): string {
-  return path.resolve(serverEnv().uploadsDir);
-}
-
 /** A safe display name: no directory parts, no control characters, at most 200 characters. */
 export function cleanFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? "";
@@ -51,7 +45,7 @@ export interface SaveUploadInput {
 }
 
 /**
- * Checks the bytes against the purpose (kind by content, size), writes them to disk and records
+ * Checks the bytes against the purpose (kind by content, size), writes them to the store and records
  * the file. Call it inside the transaction of the change that uses the file; if the transaction
  * fails, call `discardStoredFile` with the key (or let the orphan sweep remove it).
  */
@@ -73,9 +67,9 @@ export async function saveUpload(
     });
   }
   const key = `${now.toISOString().slice(0, 7)}/${randomUUID()}`;
-  const target = path.join(uploadsRoot(), key);
-  await fs.mkdir(path.dirname(target), { recursive: true });
-  await fs.writeFile(target, input.bytes, { flag: "wx" });
+  const store = fileStore();
+  // Bytes first, row second: a row never names bytes that are not there (the backup relies on it).
+  await store.put(key, input.bytes, CONTENT_TYPES[kind]);
   try {
     return await db
       .insertInto("files")
@@ -93,14 +87,21 @@ export async function saveUpload(
       .returningAll()
       .executeTakeFirstOrThrow();
   } catch (error) {
-    await fs.rm(target, { force: true });
+    await discardStoredFile(key);
     throw error;
   }
 }
 
-/** Removes a stored file's bytes (after its transaction failed). */
+/**
+ * Removes a stored file's bytes (after its transaction failed). Never throws, so the failure
+ * that led here is the one reported; bytes it cannot remove are logged and stay, named by no row.
+ */
 export async function discardStoredFile(storageKey: string): Promise<void> {
-  await fs.rm(path.join(uploadsRoot(), storageKey), { force: true });
+  try {
+    await fileStore().remove(storageKey);
+  } catch (error) {
+    console.error(`Could not remove the unrecorded upload ${storageKey}:`, error);
+  }
 }
 
 /** A file's record and bytes, if the caller may see it; otherwise 404. */
@@ -121,8 +122,7 @@ export async function readFileFor(
     )
     .executeTakeFirst();
   if (!file) throw notFound("That file");
-  const bytes = await fs.readFile(path.join(uploadsRoot(), file.storage_key)).catch(() => {
-    throw new AppError("not_found", "That file's content is missing from storage.");
-  });
+  const bytes = await fileStore().get(file.storage_key);
+  if (!bytes) throw new AppError("not_found", "That file's content is missing from storage.");
   return { file, bytes };
 }
