@@ -20,7 +20,7 @@ import { formatMinor } from "@/lib/pricing/money";
 import { priceInvoicePeriod } from "@/lib/pricing/price-period";
 import { computeInvoiceTotals } from "@/lib/pricing/totals";
 import type { ContractTerms, InvoiceLineKind, InvoiceTotals, PricedCycleInput, VatTreatment } from "@/lib/pricing/types";
-import { type CycleClockTerms, cycleTurnaround } from "@/lib/turnaround/cycle";
+import { type CycleClock, cycleClock, type CycleClockTerms } from "@/lib/turnaround/cycle";
 import { continueBands, type Interval, localDate, localDaysIn, partAt, partLabel, type PeriodPart, proratedMinimumFee, splitPeriod } from "./run-periods";
 
 /** A contract version as billing needs it (lib/contracts' ContractTermsInForce has this shape). */
@@ -130,6 +130,8 @@ export function priceCustomerMonth(input: CustomerPricingInput): CustomerPricing
   const evidence = new Map<number, CycleEvidence>();
   const byPart = new Map<PeriodPart<RunTerms>, BillableCycle[]>();
   const uncovered: BillableCycle[] = [];
+  // One turnaround clock per part: its service calendar is compiled once, not once per cycle.
+  const clocks = new Map<PeriodPart<RunTerms>, CycleClock>();
 
   for (const cycle of input.cycles) {
     const part = partAt(parts, cycle.deliveredAt);
@@ -149,9 +151,10 @@ export function priceCustomerMonth(input: CustomerPricingInput): CustomerPricing
       continue;
     }
     try {
-      const outcome = cycleTurnaround(
+      let clock = clocks.get(part);
+      if (!clock) clocks.set(part, (clock = cycleClock(part.terms)));
+      const outcome = clock(
         { serviceLevel: cycle.serviceLevel, receivedAt: cycle.receivedAt, releasedAt: cycle.releasedAt, deliveredAt: cycle.deliveredAt },
-        part.terms,
       );
       if (outcome) {
         entry.late = outcome.late;

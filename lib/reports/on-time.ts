@@ -1,5 +1,6 @@
 import type { VersionValidity } from "@/lib/billing/run-periods";
-import { type CycleClockTerms, cycleTurnaround } from "@/lib/turnaround/cycle";
+import { type CycleClock, cycleClock, type CycleClockTerms, cycleTurnaround } from "@/lib/turnaround/cycle";
+import { localDayOf } from "@/lib/turnaround/local-time";
 import type { ServiceLevel } from "@/lib/turnaround/promise";
 import { bucketLabel, bucketOf, bucketsBetween, type Grain, type Instants, localDateAt } from "./periods";
 import { percent, type Report, type ReportChart, type ReportTable } from "./types";
@@ -48,15 +49,23 @@ export function versionAt<T extends VersionValidity>(versions: readonly T[], at:
   return versions.find((v) => Date.parse(v.validFrom) <= t && (v.validTo === null || t < Date.parse(v.validTo)));
 }
 
-/** A cycle's verdict under its contract, or null while it has none (see the decisions above). */
-export function cycleVerdict(cycle: OnTimeCycle, versions: readonly ClockVersion[]): CycleVerdict | null {
+const clockPerCall = (version: ClockVersion): CycleClock => (times) => cycleTurnaround(times, version);
+
+/**
+ * A cycle's verdict under its contract, or null while it has none (see the decisions above).
+ * `clockOf` gives the clock of a version; verdictsIn passes one that keeps a clock per version.
+ */
+export function cycleVerdict(
+  cycle: OnTimeCycle,
+  versions: readonly ClockVersion[],
+  clockOf: (version: ClockVersion) => CycleClock = clockPerCall,
+): CycleVerdict | null {
   const pickAt = cycle.deliveredAt ?? cycle.releasedAt;
   if (!pickAt) return null;
   const version = versionAt(versions, pickAt);
   if (!version) return null;
-  const outcome = cycleTurnaround(
+  const outcome = clockOf(version)(
     { serviceLevel: cycle.serviceLevel, receivedAt: cycle.receivedAt, releasedAt: cycle.releasedAt, deliveredAt: cycle.deliveredAt },
-    version,
   );
   if (!outcome) return null;
   const stoppedAt = (version.clockStopsAt === "released" ? cycle.releasedAt : cycle.deliveredAt)!;
@@ -90,8 +99,15 @@ export function verdictsIn(
   const start = Date.parse(period.start);
   const end = Date.parse(period.end);
   const verdicts: CycleVerdict[] = [];
+  // One clock per contract version: its calendar is compiled once, not once per cycle.
+  const clocks = new Map<ClockVersion, CycleClock>();
+  const clockOf = (version: ClockVersion) => {
+    let clock = clocks.get(version);
+    if (!clock) clocks.set(version, (clock = cycleClock(version)));
+    return clock;
+  };
   for (const cycle of cycles) {
-    const verdict = cycleVerdict(cycle, versionsByCustomer.get(cycle.organisationId) ?? []);
+    const verdict = cycleVerdict(cycle, versionsByCustomer.get(cycle.organisationId) ?? [], clockOf);
     if (!verdict) continue;
     const t = Date.parse(verdict.stoppedAt);
     if (t >= start && t < end) verdicts.push(verdict);
@@ -99,11 +115,19 @@ export function verdictsIn(
   return verdicts.sort((a, b) => a.stoppedAt.localeCompare(b.stoppedAt) || a.cycle.cycleId - b.cycle.cycleId);
 }
 
-/** The verdicts grouped per customer, service level and bucket, in customer, level, time order. */
-export function groupOnTime(verdicts: readonly CycleVerdict[], grain: Grain, timeZone: string): OnTimeGroup[] {
+/**
+ * The verdicts grouped per customer, service level and bucket, in customer, level, time order.
+ * `bucketAt` gives a verdict's bucket (by default worked out from when its clock stopped).
+ */
+export function groupOnTime(
+  verdicts: readonly CycleVerdict[],
+  grain: Grain,
+  timeZone: string,
+  bucketAt: (verdict: CycleVerdict) => string = (v) => bucketOf(v.stoppedAt, grain, timeZone),
+): OnTimeGroup[] {
   const groups = new Map<string, OnTimeGroup>();
   for (const v of verdicts) {
-    const bucket = bucketOf(v.stoppedAt, grain, timeZone);
+    const bucket = bucketAt(v);
     const key = `${v.cycle.organisationId}|${v.cycle.serviceLevel}|${bucket}`;
     let group = groups.get(key);
     if (!group) {
@@ -137,7 +161,21 @@ export function onTimeReport(input: {
   formatInstant: (iso: string) => string;
 }): Report {
   const { verdicts, grain, timeZone } = input;
-  const groups = groupOnTime(verdicts, grain, timeZone);
+  // Each verdict's bucket, worked out once for the figures, the late sets and the chart; a bucket
+  // depends only on the local day, so it is worked out once per day.
+  const bucketOfVerdict = new Map<CycleVerdict, string>();
+  const bucketOfDay = new Map<number, string>();
+  const bucketAt = (v: CycleVerdict) => {
+    let bucket = bucketOfVerdict.get(v);
+    if (bucket === undefined) {
+      const day = localDayOf(timeZone, Date.parse(v.stoppedAt));
+      bucket = bucketOfDay.get(day);
+      if (bucket === undefined) bucketOfDay.set(day, (bucket = bucketOf(v.stoppedAt, grain, timeZone)));
+      bucketOfVerdict.set(v, bucket);
+    }
+    return bucket;
+  };
+  const groups = groupOnTime(verdicts, grain, timeZone, bucketAt);
   const figures: ReportTable = {
     key: "figures",
     title: `On-time return per customer, service level and ${grain}`,
@@ -184,7 +222,7 @@ export function onTimeReport(input: {
         serial: v.cycle.serial,
         set_name: v.cycle.setName,
         service_level: LEVEL_LABEL[v.cycle.serviceLevel],
-        period: bucketOf(v.stoppedAt, grain, timeZone),
+        period: bucketAt(v),
         received: input.formatInstant(v.cycle.receivedAt!),
         due: input.formatInstant(v.dueAt),
         clock_stopped: `${input.formatInstant(v.stoppedAt)} (${v.clockStopsAt})`,
@@ -198,7 +236,7 @@ export function onTimeReport(input: {
   const customers = [...new Map(verdicts.map((v) => [v.cycle.organisationId, v.cycle.customer])).entries()].sort((a, b) => a[1].localeCompare(b[1]));
   const perCustomer = new Map<string, { measured: number; late: number }>();
   for (const v of verdicts) {
-    const key = `${v.cycle.organisationId}|${bucketOf(v.stoppedAt, grain, timeZone)}`;
+    const key = `${v.cycle.organisationId}|${bucketAt(v)}`;
     const entry = perCustomer.get(key) ?? { measured: 0, late: 0 };
     entry.measured += 1;
     if (v.late) entry.late += 1;

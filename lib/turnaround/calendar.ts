@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { TurnaroundError } from "./errors";
 import { isKnownTimeZone } from "./local-time";
+import { type ServiceDays, serviceDaysFor } from "./service-days";
 
 export const WEEKDAYS = ["mon", "tue", "wed", "thu", "fri", "sat", "sun"] as const;
 export type Weekday = (typeof WEEKDAYS)[number];
@@ -157,6 +158,8 @@ export interface CompiledCalendar {
   holidays: ReadonlySet<number>;
   /** Longest possible run of consecutive days without working time; more means something is wrong. */
   maxClosedRun: number;
+  /** Each local day's working spans and midnight, shared by calendars with the same content. */
+  days: ServiceDays;
 }
 
 // Compiled calendars per calendar object, with the JSON they were compiled from so that a calendar
@@ -194,17 +197,17 @@ export function compileCalendar(calendar: ServiceCalendar): CompiledCalendar {
   const value = parsed.data;
   const sundayFirst: Weekday[] = ["sun", "mon", "tue", "wed", "thu", "fri", "sat"];
   const holidays = new Set(value.holidays.map(dayNumberOf));
+  const week = sundayFirst.map((day) =>
+    value.hours[day].map((i) => [clockMinutes(i.start), clockMinutes(i.end)] as const).sort((a, b) => a[0] - b[0]),
+  );
   const result: CompiledCalendar = {
     timeZone: value.timeZone,
-    week: sundayFirst.map((day) =>
-      value.hours[day]
-        .map((i) => [clockMinutes(i.start), clockMinutes(i.end)] as const)
-        .sort((a, b) => a[0] - b[0]),
-    ),
+    week,
     holidays,
     // With one open weekday each holiday on it closes a whole week; a week more covers the
     // six closed weekdays and a day whose hours fall into a daylight-saving gap.
     maxClosedRun: 7 * (holidays.size + 2),
+    days: serviceDaysFor({ timeZone: value.timeZone, week, holidays }),
   };
   if (isObject && json !== undefined) compiled.set(calendar, { json, calendar: result });
   return result;

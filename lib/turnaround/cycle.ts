@@ -1,5 +1,5 @@
-import type { ServiceCalendar } from "./calendar";
-import { type TurnaroundOutcome, turnaroundOutcome } from "./outcome";
+import { compileCalendar, type CompiledCalendar, type ServiceCalendar } from "./calendar";
+import { type TurnaroundOutcome, turnaroundOutcomeIn } from "./outcome";
 import type { ServiceLevel, TurnaroundHours } from "./promise";
 
 // The turnaround of one cycle under its contract: the clock runs from receipt at the unit to
@@ -26,11 +26,28 @@ const asDate = (v: string | Date | null): Date | null => (v === null ? null : v 
  * the event that stops the clock).
  */
 export function cycleTurnaround(cycle: CycleClockTimes, terms: CycleClockTerms): TurnaroundOutcome | null {
+  return measure(cycle, terms, () => compileCalendar(terms.serviceCalendar));
+}
+
+/** cycleTurnaround for one set of terms, applied to cycle after cycle. */
+export type CycleClock = (cycle: CycleClockTimes) => TurnaroundOutcome | null;
+
+/**
+ * cycleTurnaround under fixed terms, for many cycles: the service calendar is checked and compiled
+ * on the first cycle that has an outcome and reused for the others (an invalid calendar throws the
+ * same error on every such cycle, as cycleTurnaround does). Make a new clock when the terms change.
+ */
+export function cycleClock(terms: CycleClockTerms): CycleClock {
+  let compiled: CompiledCalendar | undefined;
+  const calendar = () => (compiled ??= compileCalendar(terms.serviceCalendar));
+  return (cycle) => measure(cycle, terms, calendar);
+}
+
+function measure(cycle: CycleClockTimes, terms: CycleClockTerms, calendar: () => CompiledCalendar): TurnaroundOutcome | null {
   const startedAt = asDate(cycle.receivedAt);
   const finishedAt = asDate(terms.clockStopsAt === "released" ? cycle.releasedAt : cycle.deliveredAt);
   if (!startedAt || !finishedAt) return null;
-  return turnaroundOutcome({
-    calendar: terms.serviceCalendar,
+  return turnaroundOutcomeIn(calendar, {
     startedAt,
     finishedAt,
     turnaroundHours: terms.turnaroundHours[cycle.serviceLevel],

@@ -20,4 +20,4 @@ export {
   type ServiceLevel,
   type TurnaroundHours,
 } from "./promise";
-export { cycleTurnaround, type CycleClockTerms, type CycleClockTimes } from "./cycle";
+export { cycleClock, cycleTurnaround, type CycleClock, type CycleClockTerms, type CycleClockTimes } from "./cycle";

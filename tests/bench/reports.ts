@@ -2,7 +2,8 @@
 // customers, two scan events per cycle, washer batches, invoices and the coming days' bookings),
 // built in a temporary database, against a baseline measured in the same run (one plain SELECT of
 // the period's cycles).
-// Run: npm run bench:reports  (prints a Markdown table; REPORTS_BENCH_RUNS sets the runs).
+// Run: npm run bench:reports  (prints a Markdown table; REPORTS_BENCH_RUNS sets the runs,
+// REPORTS_BENCH_CYCLES the number of cycles, a multiple of 40 such as 100000 for a quicker run).
 //
 // The rows are written straight into the tables with prepared INSERTs inside one transaction, not
 // through applyCycleEvent, which would take hours for a million cycles and is not what is measured.
@@ -19,8 +20,11 @@ import { mulberry32 } from "../../lib/routing/random";
 import { markdownTable, median, quantile } from "./_stats";
 
 const CUSTOMERS = 40;
-const CYCLES = 1_000_000;
+const CYCLES = Number(process.env.REPORTS_BENCH_CYCLES ?? 1_000_000);
 const RUNS = Number(process.env.REPORTS_BENCH_RUNS ?? 5);
+if (!Number.isInteger(CYCLES / CUSTOMERS) || CYCLES <= 0) {
+  throw new Error(`REPORTS_BENCH_CYCLES must be a positive multiple of ${CUSTOMERS} (got ${process.env.REPORTS_BENCH_CYCLES}).`);
+}
 const ZONE = "Europe/London";
 const NOW = new Date("2026-12-01T09:00:00Z");
 const HISTORY_START = Date.parse("2024-12-01T00:00:00Z");
