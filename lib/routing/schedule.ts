@@ -158,14 +158,28 @@ export function buildRoute(c: Compiled, v: number, seq: readonly number[]): Rout
   const totals = legTotals(c, seq);
   const b = c.breaks[v];
   // The van leaves no earlier than it must: waiting at the first stop becomes time at the unit,
-  // and every planned time after it stays as it is. (Not when the break comes before that stop:
-  // it may be the reason for the wait.)
+  // and the first stop's start and every planned time after it stay as they are. With the break
+  // on the way to the first stop, the van leaves late enough to arrive as the break ends, but
+  // never so late that the break would start after its latest start.
   let departMin = c.vStart[v];
+  let breakStart = sum.breakStart;
   const first = routeStops[0];
-  if (first && first.waitMin > EPS && sum.breakLeg !== 0) {
-    departMin += first.waitMin;
-    first.arrivalMin = first.startMin;
-    first.waitMin = 0;
+  if (first && first.waitMin > EPS) {
+    const drive = c.time[seq[0] + 1];
+    const onFirstLeg = b && sum.breakLeg === 0 ? b : null;
+    const delay = onFirstLeg
+      ? Math.min(first.startMin - onFirstLeg.duration - drive - departMin, onFirstLeg.latest - departMin)
+      : first.startMin - drive - departMin;
+    if (delay > EPS) {
+      departMin += delay;
+      if (onFirstLeg) {
+        breakStart = Math.max(departMin, onFirstLeg.earliest);
+        first.arrivalMin = Math.max(departMin + drive, onFirstLeg.earliest) + onFirstLeg.duration;
+      } else {
+        first.arrivalMin = departMin + drive;
+      }
+      first.waitMin = first.startMin - first.arrivalMin;
+    }
   }
   return {
     vehicleId: c.problem.vehicles[v].id,
@@ -174,8 +188,8 @@ export function buildRoute(c: Compiled, v: number, seq: readonly number[]): Rout
     break:
       b && sum.breakLeg >= 0
         ? {
-            startMin: sum.breakStart,
-            endMin: sum.breakStart + b.duration,
+            startMin: breakStart,
+            endMin: breakStart + b.duration,
             beforeStopId: sum.breakLeg < seq.length ? stops[seq[sum.breakLeg]].id : null,
           }
         : null,

@@ -93,6 +93,23 @@ describe("evaluateRoute", () => {
     expect(route.endMin).toBe(630);
   });
 
+  it("leaves late enough to arrive as the break ends, but keeps the break's latest start (hand-computed)", () => {
+    // A opens at 10:00, 10 min from the unit; the shift starts at 08:00 and the 30 min break
+    // starts 08:20–10:00. Leaving at 09:20 the break is 09:20–09:50 and A is reached at 10:00.
+    const late = problem({ a: { windows: [{ startMin: 600, endMin: 700 }] }, v1: { breakMin: { earliestMin: 500, latestMin: 600, durationMin: 30 } } });
+    const one = evaluateRoute(late, travel, "V1", ["A"]);
+    expect(one.violations).toEqual([]);
+    expect(one.route).toMatchObject({ departMin: 560, break: { startMin: 560, endMin: 590, beforeStopId: "A" }, endMin: 620 });
+    expect(one.route.stops[0]).toMatchObject({ arrivalMin: 600, startMin: 600, waitMin: 0 });
+    // With the break to start by 08:40, the van leaves at 08:40 and waits 40 min at A.
+    const early = problem({ a: { windows: [{ startMin: 600, endMin: 700 }] }, v1: { breakMin: { earliestMin: 500, latestMin: 520, durationMin: 30 } } });
+    const two = evaluateRoute(early, travel, "V1", ["A"]);
+    expect(two.violations).toEqual([]);
+    expect(two.route).toMatchObject({ departMin: 520, break: { startMin: 520, endMin: 550, beforeStopId: "A" } });
+    expect(two.route.stops[0]).toMatchObject({ arrivalMin: 560, startMin: 600, waitMin: 40 });
+    expect(validateSolution(early, { ...structuredClone(solve(early, travel, { seed: 1, maxIterations: 50 })) }, travel)).toEqual([]);
+  });
+
   it("reports a break that cannot start in time", () => {
     const p = problem({ v1: { breakMin: { earliestMin: 400, latestMin: 470, durationMin: 15 } } });
     const { violations } = evaluateRoute(p, travel, "V1", ["A"]);
