@@ -41,8 +41,9 @@ describe("security headers on every page and handler", () => {
       expect(d.get("object-src")).toBe("'none'");
       expect(d.get("base-uri")).toBe("'self'");
       expect(d.get("form-action")).toBe("'self'");
-      // Production never allows eval; 'unsafe-inline' stays for Next's inline bootstrap (see next.config.mjs).
-      expect(d.get("script-src")).toBe("'self' 'unsafe-inline'");
+      // Scripts need this response's nonce (or a script carrying it that loads them); production
+      // never allows eval or inline scripts without the nonce (lib/http/csp.ts).
+      expect(d.get("script-src")).toMatch(/^'self' 'nonce-[A-Za-z0-9+/]{22}==' 'strict-dynamic'$/);
       expect(d.get("connect-src")).toBe("'self'");
       expect(res.headers.get("x-content-type-options")).toBe("nosniff");
       expect(res.headers.get("x-frame-options")).toBe("DENY");
@@ -51,6 +52,21 @@ describe("security headers on every page and handler", () => {
       expect(res.headers.get("x-powered-by")).toBeNull();
     });
   }
+
+  it("gives every page a fresh nonce, and every script of the page carries it", async () => {
+    const nonces: string[] = [];
+    for (let i = 0; i < 2; i++) {
+      const res = await fetch(new URL("/sign-in", inject("appUrl")));
+      const nonce = /'nonce-([^']+)'/.exec(res.headers.get("content-security-policy") ?? "")?.[1];
+      expect(nonce).toBeDefined();
+      nonces.push(nonce!);
+      const html = await res.text();
+      const scripts = [...html.matchAll(/<script\b[^>]*>/g)].map((m) => m[0]);
+      expect(scripts.length).toBeGreaterThan(0);
+      for (const tag of scripts) expect(tag).toContain(`nonce="${nonce}"`);
+    }
+    expect(nonces[0]).not.toBe(nonces[1]);
+  });
 
   it("sets the session cookie HttpOnly and SameSite=Lax (and, over plain http here, without Secure)", async () => {
     const base = inject("appUrl");
