@@ -27,6 +27,8 @@ export function useFormDialog<I extends FieldValues, O, D>({
   schema,
   defaults,
   resetOnOpen = false,
+  clearErrorOnClose = false,
+  onOpen,
   submit,
   onSuccess,
 }: {
@@ -34,6 +36,10 @@ export function useFormDialog<I extends FieldValues, O, D>({
   /** The form's starting values; with `resetOnOpen` the form starts from them each time it opens. */
   defaults: () => I;
   resetOnOpen?: boolean;
+  /** The action's message goes when the dialog is dismissed (Escape, its close button, outside); the values stay. */
+  clearErrorOnClose?: boolean;
+  /** Each time the dialog opens, after the reset of `resetOnOpen`: resets the dialog's own state (an upload). */
+  onOpen?: () => void;
   /** Calls the action with the form's own values (the action parses them) or with the parsed ones. */
   submit: (values: I, parsed: O) => Promise<ActionResult<D>>;
   /** After the dialog has closed on success: the toast, a refresh or the way to the new record. */
@@ -65,6 +71,8 @@ export function useFormDialog<I extends FieldValues, O, D>({
         setFormError(null);
         form.reset(defaults());
       }
+      if (!next && clearErrorOnClose) setFormError(null);
+      if (next) onOpen?.();
     },
     close: () => setOpen(false),
     formError,
@@ -74,7 +82,8 @@ export function useFormDialog<I extends FieldValues, O, D>({
 
 /**
  * The dialog of `useFormDialog`: its trigger, the form with the action's message above the fields,
- * and with `submitLabel` a Cancel and a submit button under them ("Saving…" while it runs).
+ * and with `submitLabel` a Cancel and a submit button under them (`submittingLabel`, "Saving…" by
+ * default, while it runs; `submitDisabled` holds the submit back, e.g. while an upload runs).
  */
 export function FormDialog<I extends FieldValues, O>({
   dialog,
@@ -84,6 +93,8 @@ export function FormDialog<I extends FieldValues, O>({
   className,
   submitLabel,
   submitVariant,
+  submittingLabel = "Saving…",
+  submitDisabled,
   children,
 }: {
   dialog: FormDialogState<I, O>;
@@ -93,6 +104,8 @@ export function FormDialog<I extends FieldValues, O>({
   className?: string;
   submitLabel?: string;
   submitVariant?: ButtonProps["variant"];
+  submittingLabel?: string;
+  submitDisabled?: boolean;
   children: ReactNode;
 }) {
   const { isSubmitting } = dialog.form.formState;
@@ -109,8 +122,8 @@ export function FormDialog<I extends FieldValues, O>({
                 <Button variant="secondary" onClick={dialog.close}>
                   Cancel
                 </Button>
-                <Button type="submit" variant={submitVariant}>
-                  {isSubmitting ? "Saving…" : submitLabel}
+                <Button type="submit" variant={submitVariant} disabled={submitDisabled}>
+                  {isSubmitting ? submittingLabel : submitLabel}
                 </Button>
               </div>
             )}

@@ -1,15 +1,10 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
-import { useState } from "react";
-import { useForm } from "react-hook-form";
 import { toast } from "sonner";
-import { applyFieldErrors } from "@/components/forms/apply-field-errors";
-import { FormError } from "@/components/forms/form-error";
+import { FormDialog, useFormDialog } from "@/components/forms/form-dialog";
 import { Button } from "@/components/ui/button";
-import { Dialog, DialogContent, DialogTrigger } from "@/components/ui/dialog";
 import { Field } from "@/components/ui/field";
 import { Textarea } from "@/components/ui/input";
 import { closeInvoiceAction } from "./actions";
@@ -33,56 +28,39 @@ const WORDS = {
 /** Void an invoice, or mark it uncollectible, with the reason. */
 export function CloseInvoiceDialog({ invoiceId, to }: { invoiceId: number; to: "void" | "uncollectible" }) {
   const words = WORDS[to];
-  const [open, setOpen] = useState(false);
-  const [formError, setFormError] = useState<string | null>(null);
   const router = useRouter();
   const queryClient = useQueryClient();
+  const dialog = useFormDialog({
+    schema: closeInvoiceFormSchema,
+    defaults: (): CloseInvoiceForm => ({ invoiceId, to, reason: "" }),
+    submit: (_values, parsed) => closeInvoiceAction(parsed),
+    onSuccess: async () => {
+      toast.success(words.done);
+      await queryClient.invalidateQueries({ queryKey: ["invoice", invoiceId] });
+      router.refresh();
+    },
+  });
   const {
     register,
-    handleSubmit,
-    setError,
-    formState: { errors, isSubmitting },
-  } = useForm<CloseInvoiceForm>({ resolver: zodResolver(closeInvoiceFormSchema), defaultValues: { invoiceId, to, reason: "" } });
-
-  const onSubmit = async (values: CloseInvoiceForm) => {
-    setFormError(null);
-    const result = await closeInvoiceAction(values);
-    if (!result.ok) {
-      applyFieldErrors(result.error.fields, setError);
-      setFormError(result.error.message);
-      return;
-    }
-    toast.success(words.done);
-    await queryClient.invalidateQueries({ queryKey: ["invoice", invoiceId] });
-    router.refresh();
-    setOpen(false);
-  };
+    formState: { errors },
+  } = dialog.form;
 
   return (
-    <Dialog open={open} onOpenChange={setOpen}>
-      <DialogTrigger asChild>
+    <FormDialog
+      dialog={dialog}
+      trigger={
         <Button variant="ghost" size="sm">
           {words.button}
         </Button>
-      </DialogTrigger>
-      <DialogContent title={words.title} description={words.description}>
-        <form onSubmit={handleSubmit(onSubmit)} noValidate className="space-y-4">
-          <FormError message={formError} />
-          <fieldset disabled={isSubmitting} className="space-y-4">
-            <Field id={`close-${to}-reason`} label="Reason" error={errors.reason?.message}>
-              <Textarea id={`close-${to}-reason`} aria-invalid={!!errors.reason} {...register("reason")} />
-            </Field>
-            <div className="flex justify-end gap-2">
-              <Button variant="secondary" onClick={() => setOpen(false)}>
-                Cancel
-              </Button>
-              <Button type="submit" variant="danger">
-                {isSubmitting ? "Saving…" : words.button}
-              </Button>
-            </div>
-          </fieldset>
-        </form>
-      </DialogContent>
-    </Dialog>
+      }
+      title={words.title}
+      description={words.description}
+      submitLabel={words.button}
+      submitVariant="danger"
+    >
+      <Field id={`close-${to}-reason`} label="Reason" error={errors.reason?.message}>
+        <Textarea id={`close-${to}-reason`} aria-invalid={!!errors.reason} {...register("reason")} />
+      </Field>
+    </FormDialog>
   );
 }
