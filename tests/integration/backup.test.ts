@@ -1,4 +1,3 @@
-import { type ChildProcessWithoutNullStreams, spawn } from "node:child_process";
 import { createHash } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
@@ -10,6 +9,7 @@ import type { SeedResult } from "@/db/seed/demo";
 import { enqueueMail } from "@/lib/mail/outbox";
 import { saveUpload } from "@/lib/storage/files";
 import { testDatabaseKind } from "../support/db";
+import { runBackupScript } from "../support/backup-script";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 
 // `npm run backup` while the app is writing (uploads and rows), then `npm run restore` into a new
@@ -18,8 +18,6 @@ import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 
 // SQLite only: `npm run backup` copies the SQLite file and the uploads; a PostgreSQL deployment backs up with the server's own tools (README).
 const onSqlite = testDatabaseKind() === "sqlite";
-const TSX = path.resolve(__dirname, "../../node_modules/.bin/tsx");
-const SCRIPT = path.resolve(__dirname, "../../db/backup.ts");
 let t: DemoDatabase;
 let seed: SeedResult;
 const dirs: string[] = [];
@@ -27,21 +25,6 @@ const dirs: string[] = [];
 const PNG_HEAD = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 const png = (n: number) => new Uint8Array([...PNG_HEAD, ...new TextEncoder().encode(`photo ${n} `.repeat(50 + n))]);
 const sha = (bytes: Uint8Array | Buffer) => createHash("sha256").update(bytes).digest("hex");
-
-function run(args: string[], dataDir: string): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const env: NodeJS.ProcessEnv = { ...process.env, STEAMLANE_DATA_DIR: dataDir };
-    delete env.DATABASE_PATH;
-    delete env.UPLOADS_DIR;
-    const child = spawn(TSX, [SCRIPT, ...args], { env, stdio: "pipe" }) as unknown as ChildProcessWithoutNullStreams;
-    let stdout = "";
-    let stderr = "";
-    child.stdout.on("data", (c: Buffer) => (stdout += c.toString()));
-    child.stderr.on("data", (c: Buffer) => (stderr += c.toString()));
-    child.on("error", reject);
-    child.on("close", (code: number | null) => resolve({ code, stdout, stderr }));
-  });
-}
 
 function tempDir(name: string): string {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), `steamlane-${name}-`));
@@ -91,7 +74,7 @@ describe.runIf(onSqlite)("backup and restore", () => {
         await new Promise((r) => setTimeout(r, 5));
       }
     })();
-    const backup = await run(["backup", "--out", out], t.dir);
+    const backup = await runBackupScript(["backup", "--out", out], t.dir);
     writing = false;
     await writer;
     expect(backup.code, backup.stderr).toBe(0);
@@ -101,7 +84,7 @@ describe.runIf(onSqlite)("backup and restore", () => {
     const manifest = verifyBackup(folder);
 
     const target = tempDir("restored");
-    const restore = await run(["restore", folder], target);
+    const restore = await runBackupScript(["restore", folder], target);
     expect(restore.code, restore.stderr).toBe(0);
     const restored = readAll(path.join(target, "steamlane.db"));
 
@@ -120,24 +103,24 @@ describe.runIf(onSqlite)("backup and restore", () => {
 
   it("refuses to restore over an existing database unless forced, and a damaged backup at all, changing nothing", async () => {
     const out = tempDir("backups");
-    const made = await run(["backup", "--out", out], t.dir);
+    const made = await runBackupScript(["backup", "--out", out], t.dir);
     expect(made.code, made.stderr).toBe(0);
     const folder = /to (\S+)$/m.exec(made.stdout.trim())![1]!;
 
     const target = tempDir("restored");
-    expect((await run(["restore", folder], target)).code).toBe(0);
+    expect((await runBackupScript(["restore", folder], target)).code).toBe(0);
     const dbFile = path.join(target, "steamlane.db");
     const first = sha(fs.readFileSync(dbFile));
-    const again = await run(["restore", folder], target);
+    const again = await runBackupScript(["restore", folder], target);
     expect(again.code).toBe(1);
     expect(again.stderr).toMatch(/already exists.*--force/);
     expect(sha(fs.readFileSync(dbFile))).toBe(first);
-    expect((await run(["restore", folder, "--force"], target)).code).toBe(0);
+    expect((await runBackupScript(["restore", folder, "--force"], target)).code).toBe(0);
 
     const manifest = verifyBackup(folder);
     const victim = path.join(folder, "uploads", manifest.files[0]!.storageKey);
     fs.appendFileSync(victim, "tampered");
-    const damaged = await run(["restore", folder, "--force"], target);
+    const damaged = await runBackupScript(["restore", folder, "--force"], target);
     expect(damaged.code).toBe(1);
     expect(damaged.stderr).toMatch(/missing or damaged/);
     expect(sha(fs.readFileSync(dbFile))).toBe(first);

@@ -11,12 +11,12 @@ import type { RequestLogEntry } from "@/fakes/stripe/core";
 import { startFakeStripe, type FakeStripe } from "@/fakes/stripe/server";
 import { approveRun, createRun } from "@/lib/billing/run";
 import { recordToCsv } from "@/lib/cycles/csv";
-import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { synthWasherRecord } from "@/lib/cycles/synth";
 import { resetStripeClient } from "@/lib/stripe";
 import { addToBatch, openBatch, startBatch } from "@/lib/washing/service";
 import { testDatabaseKind } from "../support/db";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
+import { packedCycle } from "../support/loads";
 import { sessionUser } from "../support/session";
 
 // The server killed with SIGKILL in the middle of closing a washer batch and in the middle of
@@ -160,22 +160,7 @@ beforeAll(async () => {
     .execute();
   expect(free).toHaveLength(3);
   for (const set of free) {
-    const at = new Date("2026-12-01T08:30:00Z");
-    const cycleId = await openCycle(t.db, {
-      organisationId: set.organisation_id,
-      siteId: set.home_site_id,
-      setId: set.id,
-      orderId: null,
-      serviceLevel: "standard",
-      heavySoil: false,
-      outOfHours: false,
-      loaner: false,
-      neededBackBy: null,
-      promisedAt: null,
-      userId: null,
-      at,
-    });
-    await applyCycleEvent(t.db, { cycleId, event: "receive", station: "receiving", userId: tech.id, at });
+    await packedCycle(t.db, set.id, tech.id, "received", new Date("2026-12-01T08:30:00Z"));
     await addToBatch(t.db, tech, batch.id, set.serial, new Date("2026-12-01T09:05:00Z"));
   }
   await startBatch(t.db, tech, batch.id, new Date("2026-12-01T09:10:00Z"));

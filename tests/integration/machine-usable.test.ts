@@ -10,7 +10,6 @@ import { POST as machineTestRoute } from "@/app/api/sterilisers/tests/route";
 import type { SeedResult } from "@/db/seed/demo";
 import type { SessionUser } from "@/lib/auth/session-user";
 import { parseFlags } from "@/lib/catalogue/set-types";
-import { applyCycleEvent, openCycle } from "@/lib/cycles/store";
 import { toLocalDateTimeText } from "@/lib/local-time";
 import { getMachine, listMachines, updateMachine } from "@/lib/machines/service";
 import { clearFault, recordEntry } from "@/lib/monitoring/service";
@@ -84,22 +83,7 @@ async function washer(code: string): Promise<{ machineId: number; programId: num
 async function receivedSet(): Promise<FreeSet> {
   const set = washable.shift();
   if (!set) throw new Error("No free demo set left for this test.");
-  const at = new Date(Date.now() - 3600_000);
-  const cycleId = await openCycle(t.db, {
-    organisationId: set.organisationId,
-    siteId: (await t.db.selectFrom("sets").select("home_site_id").where("id", "=", set.id).executeTakeFirstOrThrow()).home_site_id,
-    setId: set.id,
-    orderId: null,
-    serviceLevel: "standard",
-    heavySoil: false,
-    outOfHours: false,
-    loaner: false,
-    neededBackBy: null,
-    promisedAt: null,
-    userId: null,
-    at,
-  });
-  await applyCycleEvent(t.db, { cycleId, event: "receive", station: "receiving", userId: tech.id, at });
+  await packedCycle(t.db, set.id, tech.id, "received", new Date(Date.now() - 3600_000));
   return set;
 }
 

@@ -1,4 +1,3 @@
-import { type ChildProcessWithoutNullStreams, spawn } from "node:child_process";
 import { createHash } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
@@ -16,6 +15,7 @@ import { readFileFor, saveUpload } from "@/lib/storage/files";
 import { createFileStore, diskStore } from "@/lib/storage/store";
 import { type FakeS3, startFakeS3 } from "@/fakes/s3/server";
 import { countRows, testDatabaseKind } from "../support/db";
+import { runBackupScript } from "../support/backup-script";
 import { type DemoDatabase, useDemoDatabase } from "../support/demo-database";
 import { params, requestAs, sessionCookie, sessionUser } from "../support/session";
 
@@ -24,8 +24,6 @@ import { params, requestAs, sessionCookie, sessionUser } from "../support/sessio
 // disk, the file route serves it back, refused uploads and an unreachable bucket leave neither a
 // row nor an object, and `npm run backup` / `npm run restore` carry every object the database names.
 
-const TSX = path.resolve(__dirname, "../../node_modules/.bin/tsx");
-const SCRIPT = path.resolve(__dirname, "../../db/backup.ts");
 const CLINIC = "theatres@quillby.example";
 const UNIT_ADMIN = "admin@larkmoor.example";
 
@@ -69,21 +67,6 @@ async function uploadAs(email: string, bytes: Uint8Array, name: string, purpose 
   form.set("purpose", purpose);
   const headers = new Headers({ host: "localhost:3000", origin: "http://localhost:3000", cookie: await sessionCookie(userId(email)) });
   return uploadRoute(new NextRequest(new URL("/api/files", "http://localhost:3000"), { method: "POST", headers, body: form }), params({}));
-}
-
-function run(args: string[], dataDir: string): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve, reject) => {
-    const env: NodeJS.ProcessEnv = { ...process.env, STEAMLANE_DATA_DIR: dataDir };
-    delete env.DATABASE_PATH;
-    delete env.UPLOADS_DIR;
-    const child = spawn(TSX, [SCRIPT, ...args], { env, stdio: "pipe" }) as unknown as ChildProcessWithoutNullStreams;
-    let stdout = "";
-    let stderr = "";
-    child.stdout.on("data", (c: Buffer) => (stdout += c.toString()));
-    child.stderr.on("data", (c: Buffer) => (stderr += c.toString()));
-    child.on("error", reject);
-    child.on("close", (code: number | null) => resolve({ code, stdout, stderr }));
-  });
 }
 
 function tempDir(name: string): string {
@@ -189,7 +172,7 @@ describe("uploads in an S3 bucket", () => {
       expect(rows.length).toBeGreaterThan(6);
 
       const out = tempDir("s3-backups");
-      const backup = await run(["backup", "--out", out], t.dir);
+      const backup = await runBackupScript(["backup", "--out", out], t.dir);
       expect(backup.code, backup.stderr).toBe(0);
       const folder = /to (\S+)$/m.exec(backup.stdout.trim())![1]!;
       const manifest = verifyBackup(folder);
@@ -200,7 +183,7 @@ describe("uploads in an S3 bucket", () => {
       for (const key of await objectKeys()) await s3.send(new DeleteObjectCommand({ Bucket: fake.bucket, Key: key }));
       expect(await objectKeys()).toEqual([]);
       const target = tempDir("s3-restored");
-      const restore = await run(["restore", folder], target);
+      const restore = await runBackupScript(["restore", folder], target);
       expect(restore.code, restore.stderr).toBe(0);
       expect(restore.stdout).toMatch(`and the S3 bucket ${fake.bucket}`);
       expect(fs.existsSync(path.join(target, "uploads"))).toBe(false);
@@ -220,7 +203,7 @@ describe("uploads in an S3 bucket", () => {
       const saved = await saveUpload(t.db, { bytes: png(30), originalName: "lost.png", purpose: "problem_photo", organisationId: null, uploadedBy: null });
       await s3.send(new DeleteObjectCommand({ Bucket: fake.bucket, Key: saved.storage_key }));
       const out = tempDir("s3-backups");
-      const backup = await run(["backup", "--out", out], t.dir);
+      const backup = await runBackupScript(["backup", "--out", out], t.dir);
       expect(backup.code).toBe(1);
       expect(backup.stderr).toContain(`The upload ${saved.storage_key} named by the database is missing from the S3 bucket ${fake.bucket}`);
       expect(fs.readdirSync(out).filter((n) => !n.endsWith(".partial"))).toEqual([]);
@@ -231,15 +214,7 @@ describe("uploads in an S3 bucket", () => {
   // Through the backup script, which copies SQLite files only (on PostgreSQL it refuses first).
   it.runIf(testDatabaseKind() === "sqlite")("names the missing setting when STORAGE_DRIVER=s3 has no bucket", async () => {
     const out = tempDir("s3-backups");
-    const child = await new Promise<{ code: number | null; stderr: string }>((resolve, reject) => {
-      const env: NodeJS.ProcessEnv = { ...process.env, STEAMLANE_DATA_DIR: t.dir };
-      delete env.S3_BUCKET;
-      const p = spawn(TSX, [SCRIPT, "backup", "--out", out], { env, stdio: "pipe" }) as unknown as ChildProcessWithoutNullStreams;
-      let stderr = "";
-      p.stderr.on("data", (c: Buffer) => (stderr += c.toString()));
-      p.on("error", reject);
-      p.on("close", (code: number | null) => resolve({ code, stderr }));
-    });
+    const child = await runBackupScript(["backup", "--out", out], t.dir, ["S3_BUCKET"]);
     expect(child.code).toBe(1);
     expect(child.stderr).toMatch(/S3_BUCKET: required when STORAGE_DRIVER=s3/);
   }, 60_000);

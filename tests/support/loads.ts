@@ -51,9 +51,14 @@ export async function freeSteamSets(db: Kysely<Database>): Promise<FreeSet[]> {
 }
 
 /** Opens a cycle for the set and takes it through receiving, washing and packing. */
-export async function packedCycle(db: Kysely<Database>, setId: number, userId: number, upTo: "packed" | "washed" = "packed"): Promise<number> {
+export async function packedCycle(
+  db: Kysely<Database>,
+  setId: number,
+  userId: number,
+  upTo: "packed" | "washed" | "received" = "packed",
+  at = new Date(Date.now() - 3 * 3600_000),
+): Promise<number> {
   const row = await db.selectFrom("sets").select(["organisation_id", "home_site_id"]).where("id", "=", setId).executeTakeFirstOrThrow();
-  const at = new Date(Date.now() - 3 * 3600_000);
   const cycleId = await openCycle(db, {
     organisationId: row.organisation_id,
     siteId: row.home_site_id,
@@ -69,6 +74,7 @@ export async function packedCycle(db: Kysely<Database>, setId: number, userId: n
     at,
   });
   await applyCycleEvent(db, { cycleId, event: "receive", station: "receiving", userId, at });
+  if (upTo === "received") return cycleId;
   await applyCycleEvent(db, { cycleId, event: "wash_passed", station: "washing", userId, at });
   if (upTo === "packed") await applyCycleEvent(db, { cycleId, event: "pack", station: "packing", userId, at });
   return cycleId;
